@@ -1,0 +1,105 @@
+// The typed, validated description of one case. Filled by io/case_loader (from YAML) or by
+// tests; the solver core only reads it. All quantities are SI, density is 1 (kinematic form).
+#pragma once
+
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "core/vec2.hpp"
+
+namespace wallrans {
+
+enum class Side { left, right, bottom, top };
+
+enum class BoundaryKind {
+  wall,     ///< no-slip; `velocity` is the wall velocity (tangential motion allowed)
+  inflow,   ///< prescribed velocity vector
+  outflow,  ///< zero-gradient velocity, fixed static pressure
+  slip,     ///< symmetry / slip wall: zero normal velocity, zero shear
+  free,     ///< free boundary: fixed static pressure; inflowing parts take `velocity`
+};
+
+struct FlowSpec {
+  double kinematic_viscosity = 0.0;  ///< nu [m^2/s], required, > 0
+  double reference_velocity = 1.0;   ///< U_ref for Cf, Cp, initial field [m/s], > 0
+  double reference_length = 1.0;     ///< L_ref for Reynolds number and reports [m], > 0
+  double reference_pressure = 0.0;   ///< p_ref for Cp and default outflow pressure [m^2/s^2]
+  Vec2 body_force{0.0, 0.0};         ///< uniform body force per unit mass [m/s^2]
+  Vec2 initial_velocity{0.0, 0.0};   ///< initial interior velocity [m/s]
+};
+
+enum class GridGenerator { channel, cavity, plate, skewed_box };
+
+struct GridSpec {
+  GridGenerator generator = GridGenerator::cavity;
+  int cells_x = 0;  ///< required, >= 1 (periodic directions >= 2)
+  int cells_y = 0;
+  double length = 1.0;  ///< extent in x [m] (plate: length of the no-slip plate)
+  double height = 1.0;  ///< extent in y [m]
+  /// First cell height at the wall(s) [m]; absent = uniform spacing. Channel and cavity cluster
+  /// at both walls of y (cavity also x), plate at the bottom wall.
+  std::optional<double> first_cell_height;
+  double run_up = 0.0;                         ///< plate: slip run-up length ahead of x = 0 [m]
+  int run_up_cells = 0;                        ///< plate: cells in the run-up (included in cells_x)
+  std::optional<double> leading_edge_spacing;  ///< plate: x spacing at the leading edge [m]
+  double skew_amplitude = 0.0;                 ///< skewed_box: node displacement / cell-free size
+};
+
+struct BoundarySegmentSpec {
+  Side side = Side::left;
+  std::optional<double> from;  ///< start coordinate along the side (x for bottom/top, y for left/right)
+  std::optional<double> to;    ///< end coordinate along the side
+  BoundaryKind kind = BoundaryKind::wall;
+  Vec2 velocity{0.0, 0.0};     ///< wall velocity, inflow velocity or free-stream velocity [m/s]
+  std::optional<double> pressure;  ///< outflow/free static pressure; default flow.reference_pressure
+  int line = 0;                ///< source line in the case file, for messages (0 = unknown)
+};
+
+enum class PeriodicAxis { none, x };
+
+struct PeriodicSpec {
+  PeriodicAxis axis = PeriodicAxis::none;
+  double mean_pressure_gradient = 0.0;  ///< dp/dx imposed as a body force -dp/dx [m/s^2]
+};
+
+enum class Coupling { simple, simplec };
+enum class ConvectionScheme { upwind, linear_upwind, bounded_linear_upwind, central };
+
+struct IterationSpec {
+  Coupling coupling = Coupling::simplec;
+  int max = 2000;                  ///< maximum outer iterations, >= 1
+  double residual_drop = 1e-6;     ///< stop when every normalised residual is below this
+  double relax_velocity = 0.8;     ///< in (0, 1)
+  double relax_pressure = 1.0;     ///< in (0, 1]; SIMPLE typically 0.3
+  ConvectionScheme convection = ConvectionScheme::bounded_linear_upwind;
+  int report_every = 50;           ///< terminal residual line every N iterations (0 = never)
+  std::string petsc_options;       ///< extra PETSc options, e.g. "-pressure_ksp_rtol 0.01"
+};
+
+struct TurbulenceSpec {
+  std::string model = "laminar";
+};
+
+struct OutputSpec {
+  std::string directory = "out";
+  int fields_every = 0;     ///< VTK files every N iterations (0 = only at the end)
+  bool wall_data = true;    ///< write wall.csv (x, y, Cf, Cp) at the end
+};
+
+struct CaseSpec {
+  std::string source_file;  ///< path of the case file ("" when built in code)
+  std::string title = "case";
+  FlowSpec flow;
+  GridSpec grid;
+  std::vector<BoundarySegmentSpec> boundaries;
+  PeriodicSpec periodic;
+  TurbulenceSpec turbulence;
+  IterationSpec iterations;
+  OutputSpec output;
+};
+
+const char* to_string(Side side);
+const char* to_string(BoundaryKind kind);
+
+}  // namespace wallrans

@@ -1,0 +1,123 @@
+// DMDA creation and finite-volume metrics from node coordinates.
+#include "grid/grid.hpp"
+
+#include <petscdmda.h>
+
+#include <algorithm>
+#include <cstring>
+#include <string>
+
+#include "core/error.hpp"
+
+namespace wallrans {
+
+namespace {
+
+// Polygon area and centroid of the quadrilateral a-b-c-d (shoelace formula).
+void quad_metrics(Vec2 a, Vec2 b, Vec2 c, Vec2 d, double& area, Vec2& centroid) {
+  const Vec2 p[4] = {a, b, c, d};
+  double twice_area = 0.0;
+  Vec2 moment{0.0, 0.0};
+  for (int k = 0; k < 4; ++k) {
+    const Vec2 u = p[k], v = p[(k + 1) % 4];
+    const double w = cross(u, v);
+    twice_area += w;
+    moment = moment + w * (u + v);
+  }
+  area = 0.5 * twice_area;
+  centroid = (std::abs(twice_area) > 0.0) ? (1.0 / (3.0 * twice_area)) * moment : 0.25 * (a + b + c + d);
+}
+
+}  // namespace
+
+Vec2 Grid::node(int i, int j) const {
+  const int nx = nodes_.cells_x;
+  if (i >= 0 && i <= nx) return nodes_.at(i, j);
+  // Periodic wrap: the period vector is node(nx, j) - node(0, j).
+  const Vec2 period = nodes_.at(nx, j) - nodes_.at(0, j);
+  if (i < 0) return nodes_.at(i + nx, j) - period;
+  return nodes_.at(i - nx, j) + period;
+}
+
+Grid::Grid(MPI_Comm comm, NodeCoordinates nodes, bool periodic_x)
+    : comm_(comm), nodes_(std::move(nodes)), periodic_x_(periodic_x) {
+  check_mpi(MPI_Comm_rank(comm_, &rank_));
+  const int nx = nodes_.cells_x, ny = nodes_.cells_y;
+  // Reject folded cells before any parallel work, identically on all ranks.
+  for (int j = 0; j < ny; ++j) {
+    for (int i = 0; i < nx; ++i) {
+      double area = 0.0;
+      Vec2 c;
+      quad_metrics(nodes_.at(i, j), nodes_.at(i + 1, j), nodes_.at(i + 1, j + 1), nodes_.at(i, j + 1),
+                   area, c);
+      if (!(area > 0.0)) {
+        throw InputError("grid: cell (" + std::to_string(i) + ", " + std::to_string(j) +
+                         ") has non-positive volume " + std::to_string(area) +
+                         "; expected counter-clockwise cells with positive area");
+      }
+    }
+  }
+  check_petsc(DMDACreate2d(comm_, periodic_x_ ? DM_BOUNDARY_PERIODIC : DM_BOUNDARY_NONE,
+                           DM_BOUNDARY_NONE, DMDA_STENCIL_STAR, nx, ny, PETSC_DECIDE, PETSC_DECIDE, 1,
+                           1, nullptr, nullptr, dm_.out()));
+  check_petsc(DMSetFromOptions(dm_.get()));
+  check_petsc(DMSetUp(dm_.get()));
+  check_petsc(DMDAGetCorners(dm_.get(), &xs_, &ys_, nullptr, &xm_, &ym_, nullptr));
+  check_petsc(DMDAGetGhostCorners(dm_.get(), &gxs_, &gys_, nullptr, &gxm_, &gym_, nullptr));
+  check_petsc(DMCreateGlobalVector(dm_.get(), scratch_global_.out()));
+  check_petsc(DMCreateLocalVector(dm_.get(), scratch_local_.out()));
+
+  centre_.resize(n_ghosted());
+  volume_.resize(n_ghosted());
+  for (int j = gys_; j < gys_ + gym_; ++j) {
+    for (int i = gxs_; i < gxs_ + gxm_; ++i) {
+      quad_metrics(node(i, j), node(i + 1, j), node(i + 1, j + 1), node(i, j + 1), volume_[local(i, j)],
+                   centre_[local(i, j)]);
+    }
+  }
+  east_.resize(static_cast<size_t>(gxm_ + 1) * gym_);
+  for (int j = gys_; j < gys_ + gym_; ++j) {
+    for (int i = gxs_ - 1; i < gxs_ + gxm_; ++i) {
+      const Vec2 a = node(i + 1, j), b = node(i + 1, j + 1);
+      const Vec2 edge = b - a;  // runs towards +j; the normal (dy, -dx) points towards +i
+      east_[static_cast<size_t>(j - gys_) * (gxm_ + 1) + (i - gxs_ + 1)] = {{edge.y, -edge.x},
+                                                                            0.5 * (a + b)};
+    }
+  }
+  north_.resize(static_cast<size_t>(gxm_) * (gym_ + 1));
+  for (int j = gys_ - 1; j < gys_ + gym_; ++j) {
+    for (int i = gxs_; i < gxs_ + gxm_; ++i) {
+      const Vec2 a = node(i, j + 1), b = node(i + 1, j + 1);
+      const Vec2 edge = b - a;  // runs towards +i; the normal (-dy, dx) points towards +j
+      north_[static_cast<size_t>(j - gys_ + 1) * gxm_ + (i - gxs_)] = {{-edge.y, edge.x}, 0.5 * (a + b)};
+    }
+  }
+}
+
+void Grid::exchange(std::vector<double>& ghosted) const {
+  PetscScalar* g = nullptr;
+  check_petsc(VecGetArray(scratch_global_.get(), &g));
+  for (int j = ys_; j < ys_ + ym_; ++j) {
+    for (int i = xs_; i < xs_ + xm_; ++i) g[owned(i, j)] = ghosted[local(i, j)];
+  }
+  check_petsc(VecRestoreArray(scratch_global_.get(), &g));
+  check_petsc(DMGlobalToLocal(dm_.get(), scratch_global_.get(), INSERT_VALUES, scratch_local_.get()));
+  const PetscScalar* l = nullptr;
+  check_petsc(VecGetArrayRead(scratch_local_.get(), &l));
+  std::memcpy(ghosted.data(), l, sizeof(double) * n_ghosted());
+  check_petsc(VecRestoreArrayRead(scratch_local_.get(), &l));
+}
+
+double Grid::global_sum(double local_value) const {
+  double out = 0.0;
+  check_mpi(MPI_Allreduce(&local_value, &out, 1, MPI_DOUBLE, MPI_SUM, comm_));
+  return out;
+}
+
+double Grid::global_max(double local_value) const {
+  double out = 0.0;
+  check_mpi(MPI_Allreduce(&local_value, &out, 1, MPI_DOUBLE, MPI_MAX, comm_));
+  return out;
+}
+
+}  // namespace wallrans

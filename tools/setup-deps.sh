@@ -1,0 +1,23 @@
+#!/usr/bin/env bash
+# Installs the Debian 12 packages wallrans needs to build, test and post-process.
+# Idempotent: only missing packages are installed; quick when everything is present.
+set -euo pipefail
+packages=(
+  build-essential cmake pkg-config git
+  petsc-dev libhdf5-openmpi-dev libyaml-cpp-dev libvtk9-dev libopenmpi-dev openmpi-bin
+  libgtest-dev hdf5-tools python3 python3-numpy python3-h5py python3-vtk9
+)
+missing=()
+for p in "${packages[@]}"; do
+  dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q "install ok installed" || missing+=("$p")
+done
+if [ ${#missing[@]} -eq 0 ]; then
+  echo "setup-deps: all packages present"
+  exit 0
+fi
+echo "setup-deps: installing ${missing[*]}"
+export DEBIAN_FRONTEND=noninteractive
+SUDO=""
+[ "$(id -u)" -eq 0 ] || SUDO="sudo"
+$SUDO apt-get update -qq
+$SUDO apt-get install -y -qq --no-install-recommends "${missing[@]}"
