@@ -1,0 +1,53 @@
+// The seam between the mean-flow solver and the turbulence closures: once per outer iteration
+// the solver hands the current mean flow to the model, which advances its own equation(s) and
+// returns the eddy viscosity. The coupling code never knows which model runs.
+#pragma once
+
+#include <memory>
+#include <string>
+#include <vector>
+
+#include "grid/grid.hpp"
+
+namespace wallrans {
+
+/// Read-only view of the mean flow handed to a model.
+struct MeanFlowView {
+  const Grid& grid;
+  const VectorField& velocity;
+  const VectorField& grad_u;  ///< gradient of the x velocity component
+  const VectorField& grad_v;  ///< gradient of the y velocity component
+  const Field& flux_east;     ///< volumetric flux through the east face of each cell [m^2/s]
+  const Field& flux_north;    ///< volumetric flux through the north face of each cell
+  double kinematic_viscosity;
+};
+
+struct ModelResidual {
+  std::string name;
+  double value;  ///< absolute residual norm of the model equation
+};
+
+class TurbulenceModel {
+ public:
+  virtual ~TurbulenceModel() = default;
+  virtual std::string name() const = 0;
+  /// Collective: advance the model equation(s) one outer iteration, then refresh eddy_viscosity().
+  virtual void update(const MeanFlowView& flow) = 0;
+  /// Eddy viscosity nu_t [m^2/s] in the ghosted range (ghosts current after update()).
+  virtual const Field& eddy_viscosity() const = 0;
+  virtual std::vector<ModelResidual> residuals() const { return {}; }
+};
+
+/// Laminar flow: nu_t = 0.
+class LaminarModel final : public TurbulenceModel {
+ public:
+  explicit LaminarModel(const Grid& grid) : nut_(grid, 0.0) {}
+  std::string name() const override { return "laminar"; }
+  void update(const MeanFlowView&) override {}
+  const Field& eddy_viscosity() const override { return nut_; }
+
+ private:
+  Field nut_;
+};
+
+}  // namespace wallrans

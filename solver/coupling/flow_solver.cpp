@@ -1,0 +1,393 @@
+// Outer iteration of the pressure-correction solver: set-up, flux prediction, pressure
+// correction and corrections. Momentum assembly is in momentum_assembly.cpp.
+#include "coupling/flow_solver.hpp"
+
+#include <petscdmda.h>
+
+#include <algorithm>
+#include <cmath>
+
+#include "core/error.hpp"
+
+namespace wallrans {
+
+namespace {
+
+void set_default_option(const char* name, const char* value) {
+  PetscBool set = PETSC_FALSE;
+  check_petsc(PetscOptionsHasName(nullptr, nullptr, name, &set));
+  if (!set) check_petsc(PetscOptionsSetValue(nullptr, name, value));
+}
+
+}  // namespace
+
+FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap& boundaries,
+                       TurbulenceModel& model)
+    : spec_(spec), grid_(grid), boundaries_(boundaries), model_(model), bfaces_(owned_boundary_faces(grid)),
+      vel_(grid), vel_old_(grid), grad_u_(grid), grad_v_(grid), grad_p_(grid), grad_pc_(grid), p_(grid),
+      pc_(grid), nu_eff_(grid, spec.flow.kinematic_viscosity), d_rc_(grid), d_corr_(grid), flux_e_(grid),
+      flux_n_(grid), flux_e_old_(grid), flux_n_old_(grid), u_b_(grid), v_b_(grid), p_b_(grid), zero_b_(grid) {
+  for (const auto& seg : boundaries_.segments()) {
+    if (seg.kind == BoundaryKind::outflow || seg.kind == BoundaryKind::free) has_pressure_boundary_ = true;
+  }
+  flux_w_.assign(grid.cells_y(), 0.0);
+  flux_s_.assign(grid.cells_x(), 0.0);
+  lsq_all_ = std::make_unique<LeastSquaresGradient>(grid, bfaces_, [](const BoundaryFace&) { return true; });
+  lsq_pressure_ = std::make_unique<LeastSquaresGradient>(
+      grid, bfaces_, [this](const BoundaryFace& f) { return is_pressure_boundary(f); });
+
+  // Initial field: uniform velocity, zero pressure, fluxes from the velocity.
+  for (int j = grid.gy_begin(); j < grid.gy_end(); ++j) {
+    for (int i = grid.gx_begin(); i < grid.gx_end(); ++i) vel_.set(i, j, spec.flow.initial_velocity);
+  }
+  for (int j = grid.gy_begin(); j < grid.gy_end(); ++j) {
+    for (int i = grid.gx_begin(); i < grid.gx_end(); ++i) {
+      flux_e_(i, j) = dot(spec.flow.initial_velocity, grid.east_face(i, j).area);
+      flux_n_(i, j) = dot(spec.flow.initial_velocity, grid.north_face(i, j).area);
+    }
+  }
+  update_velocity_boundary_values();
+  for (const auto& f : bfaces_) {
+    const auto kind = segment(f).kind;
+    double& flux = boundary_flux_ref(f);
+    if (kind == BoundaryKind::slip) flux = 0.0;
+    else if (kind == BoundaryKind::wall || kind == BoundaryKind::inflow) flux = u_b_.at(f) * f.area.x + v_b_.at(f) * f.area.y;
+    else flux = dot(vel_(f.i, f.j), f.area);
+  }
+  flux_e_.exchange();
+  flux_n_.exchange();
+  flux_e_old_ = flux_e_;
+  flux_n_old_ = flux_n_;
+  flux_w_old_ = flux_w_;
+  flux_s_old_ = flux_s_;
+  vel_old_ = vel_;
+
+  // Linear solvers; defaults can be overridden by PETSc options with the equation's prefix.
+  if (!spec.iterations.petsc_options.empty()) {
+    check_petsc(PetscOptionsInsertString(nullptr, spec.iterations.petsc_options.c_str()));
+  }
+  set_default_option("-momentum_ksp_type", "bcgs");
+  set_default_option("-momentum_pc_type", "bjacobi");
+  set_default_option("-momentum_ksp_rtol", "1e-2");
+  set_default_option("-momentum_ksp_max_it", "200");
+  set_default_option("-pressure_ksp_type", "cg");
+  set_default_option("-pressure_pc_type", "gamg");
+  set_default_option("-pressure_ksp_rtol", "1e-2");
+  set_default_option("-pressure_ksp_max_it", "500");
+  check_petsc(DMCreateMatrix(grid.dm(), a_mom_.out()));
+  check_petsc(DMCreateMatrix(grid.dm(), a_pc_.out()));
+  check_petsc(DMCreateGlobalVector(grid.dm(), b_vec_.out()));
+  check_petsc(DMCreateGlobalVector(grid.dm(), x_vec_.out()));
+  check_petsc(KSPCreate(grid.comm(), ksp_mom_.out()));
+  check_petsc(KSPSetOptionsPrefix(ksp_mom_.get(), "momentum_"));
+  check_petsc(KSPSetInitialGuessNonzero(ksp_mom_.get(), PETSC_TRUE));
+  check_petsc(KSPSetFromOptions(ksp_mom_.get()));
+  check_petsc(KSPCreate(grid.comm(), ksp_pc_.out()));
+  check_petsc(KSPSetOptionsPrefix(ksp_pc_.get(), "pressure_"));
+  check_petsc(KSPSetFromOptions(ksp_pc_.get()));
+  if (!has_pressure_boundary_) {
+    // Closed or periodic domain: p' is defined up to a constant (NUMERICS: constant null space).
+    check_petsc(MatNullSpaceCreate(grid.comm(), PETSC_TRUE, 0, nullptr, null_space_.out()));
+    check_petsc(MatSetNullSpace(a_pc_.get(), null_space_.get()));
+  }
+  rhs_u_.assign(grid.n_owned(), 0.0);
+  rhs_v_.assign(grid.n_owned(), 0.0);
+  diag_.assign(grid.n_owned(), 0.0);
+}
+
+bool FlowSolver::is_pressure_boundary(const BoundaryFace& f) const {
+  const auto kind = segment(f).kind;
+  return kind == BoundaryKind::outflow || kind == BoundaryKind::free;
+}
+
+double& FlowSolver::boundary_flux_ref(const BoundaryFace& f) {
+  switch (f.side) {
+    case Side::left: return flux_w_[f.index];
+    case Side::bottom: return flux_s_[f.index];
+    case Side::right: return flux_e_(f.i, f.j);
+    case Side::top: return flux_n_(f.i, f.j);
+  }
+  return flux_w_[0];
+}
+
+double& FlowSolver::boundary_flux_old_ref(const BoundaryFace& f) {
+  switch (f.side) {
+    case Side::left: return flux_w_old_[f.index];
+    case Side::bottom: return flux_s_old_[f.index];
+    case Side::right: return flux_e_old_(f.i, f.j);
+    case Side::top: return flux_n_old_(f.i, f.j);
+  }
+  return flux_w_old_[0];
+}
+
+double FlowSolver::boundary_flux(const BoundaryFace& f) const {
+  return const_cast<FlowSolver*>(this)->boundary_flux_ref(f);
+}
+
+void FlowSolver::update_velocity_boundary_values() {
+  for (const auto& f : bfaces_) {
+    const auto& seg = segment(f);
+    Vec2 value = vel_(f.i, f.j);
+    switch (seg.kind) {
+      case BoundaryKind::wall:
+      case BoundaryKind::inflow:
+        value = boundary_velocity_ ? boundary_velocity_(f.centre) : seg.velocity;
+        break;
+      case BoundaryKind::outflow: break;  // zero normal gradient
+      case BoundaryKind::free:
+        if (iteration_ > 0 && boundary_flux(f) < 0.0) value = seg.velocity;
+        break;
+      case BoundaryKind::slip: {
+        const Vec2 n = (1.0 / norm(f.area)) * f.area;
+        value = value - dot(value, n) * n;
+        break;
+      }
+    }
+    u_b_.at(f) = value.x;
+    v_b_.at(f) = value.y;
+  }
+}
+
+void FlowSolver::update_pressure_gradient_and_boundary_values() {
+  for (const auto& f : bfaces_) {
+    if (is_pressure_boundary(f)) p_b_.at(f) = segment(f).pressure.value_or(spec_.flow.reference_pressure);
+  }
+  lsq_pressure_->compute(p_, p_b_, grad_p_);
+  grad_p_.exchange();
+  for (const auto& f : bfaces_) {
+    if (!is_pressure_boundary(f)) p_b_.at(f) = p_(f.i, f.j) + dot(grad_p_(f.i, f.j), f.centre - grid_.centre(f.i, f.j));
+  }
+}
+
+IterationStatus FlowSolver::iterate() {
+  IterationStatus status;
+  status.iteration = ++iteration_;
+  vel_old_ = vel_;
+  flux_e_old_ = flux_e_;
+  flux_n_old_ = flux_n_;
+  flux_w_old_ = flux_w_;
+  flux_s_old_ = flux_s_;
+
+  const Field& nut = model_.eddy_viscosity();
+  for (size_t k = 0; k < nu_eff_.data().size(); ++k) nu_eff_.data()[k] = spec_.flow.kinematic_viscosity + nut.data()[k];
+
+  update_velocity_boundary_values();
+  lsq_all_->compute(vel_.x, u_b_, grad_u_);
+  lsq_all_->compute(vel_.y, v_b_, grad_v_);
+  grad_u_.exchange();
+  grad_v_.exchange();
+  update_pressure_gradient_and_boundary_values();
+
+  assemble_momentum(status.absolute);
+  solve_momentum(status);
+  predict_fluxes();
+  assemble_and_solve_pressure_correction(status);
+  correct();
+
+  update_velocity_boundary_values();
+  model_.update(MeanFlowView{grid_, vel_, grad_u_, grad_v_, flux_e_, flux_n_, spec_.flow.kinematic_viscosity});
+
+  // Momentum: normalised by the largest momentum residual (u or v) of the first five iterations
+  // (common practice). Continuity: by the reference volume flux U_ref L_ref, since the initial
+  // mass imbalance can be zero (periodic or quiescent starts).
+  if (iteration_ <= 5) reference_.u = std::max({reference_.u, status.absolute.u, status.absolute.v});
+  const double momentum_ref = reference_.u > 0.0 ? reference_.u : 1.0;
+  const double flux_ref = spec_.flow.reference_velocity * spec_.flow.reference_length;
+  status.normalised = {status.absolute.u / momentum_ref, status.absolute.v / momentum_ref,
+                       status.absolute.continuity / flux_ref};
+  return status;
+}
+
+bool FlowSolver::converged(const IterationStatus& s) const {
+  const double tol = spec_.iterations.residual_drop;
+  return s.iteration > 5 && s.normalised.u < tol && s.normalised.v < tol && s.normalised.continuity < tol;
+}
+
+void FlowSolver::solve_linear(KSP ksp, Vec rhs, Field& solution, int& iterations, bool& converged) {
+  PetscScalar** x = nullptr;
+  check_petsc(DMDAVecGetArray(grid_.dm(), x_vec_.get(), &x));
+  for (int j = grid_.y_begin(); j < grid_.y_end(); ++j)
+    for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) x[j][i] = solution(i, j);
+  check_petsc(DMDAVecRestoreArray(grid_.dm(), x_vec_.get(), &x));
+  check_petsc(KSPSolve(ksp, rhs, x_vec_.get()));
+  KSPConvergedReason reason;
+  check_petsc(KSPGetConvergedReason(ksp, &reason));
+  PetscInt its = 0;
+  check_petsc(KSPGetIterationNumber(ksp, &its));
+  iterations += static_cast<int>(its);
+  // Hitting the iteration cap is tolerated inside the outer loop; a breakdown is not.
+  if (reason < 0 && reason != KSP_DIVERGED_ITS) converged = false;
+  check_petsc(DMDAVecGetArray(grid_.dm(), x_vec_.get(), &x));
+  for (int j = grid_.y_begin(); j < grid_.y_end(); ++j)
+    for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) solution(i, j) = x[j][i];
+  check_petsc(DMDAVecRestoreArray(grid_.dm(), x_vec_.get(), &x));
+}
+
+void FlowSolver::solve_momentum(IterationStatus& status) {
+  check_petsc(KSPSetOperators(ksp_mom_.get(), a_mom_.get(), a_mom_.get()));
+  for (int component = 0; component < 2; ++component) {
+    const auto& rhs = component == 0 ? rhs_u_ : rhs_v_;
+    PetscScalar** b = nullptr;
+    check_petsc(DMDAVecGetArray(grid_.dm(), b_vec_.get(), &b));
+    for (int j = grid_.y_begin(); j < grid_.y_end(); ++j)
+      for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) b[j][i] = rhs[grid_.owned(i, j)];
+    check_petsc(DMDAVecRestoreArray(grid_.dm(), b_vec_.get(), &b));
+    Field& target = component == 0 ? vel_.x : vel_.y;
+    solve_linear(ksp_mom_.get(), b_vec_.get(), target, status.momentum_iterations, status.linear_solves_converged);
+  }
+  vel_.exchange();
+  d_rc_.exchange();
+  d_corr_.exchange();
+}
+
+double FlowSolver::interior_flux(int il, int jl, int ir, int jr, const FaceGeometry& face, double flux_old) const {
+  const Vec2 xl = grid_.centre(il, jl), xr = grid_.centre(ir, jr);
+  const Vec2 d = xr - xl;
+  const double wl = dot(xr - face.centre, d) / dot(d, d);
+  const Vec2 xm = xl + (1.0 - wl) * d;  // projection of the face centre on the line L-R
+  const Vec2 skew = face.centre - xm;
+  auto interp = [&](const VectorField& vel) {
+    const Vec2 gu = wl * grad_u_(il, jl) + (1.0 - wl) * grad_u_(ir, jr);
+    const Vec2 gv = wl * grad_v_(il, jl) + (1.0 - wl) * grad_v_(ir, jr);
+    const Vec2 mean = wl * vel(il, jl) + (1.0 - wl) * vel(ir, jr);
+    return Vec2{mean.x + dot(gu, skew), mean.y + dot(gv, skew)};
+  };
+  const double k = dot(face.area, face.area) / dot(face.area, d);
+  const double d_face = wl * d_rc_(il, jl) + (1.0 - wl) * d_rc_(ir, jr);
+  const Vec2 gp = wl * grad_p_(il, jl) + (1.0 - wl) * grad_p_(ir, jr);
+  const double alpha = spec_.iterations.relax_velocity;
+  const double memory = (1.0 - alpha) * (flux_old - dot(interp(vel_old_), face.area));
+  return dot(interp(vel_), face.area) + d_face * k * (dot(gp, d) - (p_(ir, jr) - p_(il, jl))) + memory;
+}
+
+void FlowSolver::predict_fluxes() {
+  for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
+    for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
+      if (grid_.has_east(i)) flux_e_(i, j) = interior_flux(i, j, i + 1, j, grid_.east_face(i, j), flux_e_old_(i, j));
+      if (grid_.has_north(j)) flux_n_(i, j) = interior_flux(i, j, i, j + 1, grid_.north_face(i, j), flux_n_old_(i, j));
+    }
+  }
+  const double alpha = spec_.iterations.relax_velocity;
+  for (const auto& f : bfaces_) {
+    const auto kind = segment(f).kind;
+    double& flux = boundary_flux_ref(f);
+    if (kind == BoundaryKind::slip) {
+      flux = 0.0;
+    } else if (kind == BoundaryKind::wall || kind == BoundaryKind::inflow) {
+      flux = u_b_.at(f) * f.area.x + v_b_.at(f) * f.area.y;
+    } else {
+      const Vec2 xp = grid_.centre(f.i, f.j);
+      const Vec2 d = f.centre - xp;
+      const double k = dot(f.area, f.area) / dot(f.area, d);
+      const double memory = (1.0 - alpha) * (boundary_flux_old_ref(f) - dot(vel_old_(f.i, f.j), f.area));
+      flux = dot(vel_(f.i, f.j), f.area) +
+             d_rc_(f.i, f.j) * k * (dot(grad_p_(f.i, f.j), d) - (p_b_.at(f) - p_(f.i, f.j))) + memory;
+    }
+  }
+  flux_e_.exchange();
+  flux_n_.exchange();
+}
+
+void FlowSolver::assemble_and_solve_pressure_correction(IterationStatus& status) {
+  Mat a = a_pc_.get();
+  check_petsc(MatZeroEntries(a));
+  PetscScalar** b = nullptr;
+  check_petsc(DMDAVecGetArray(grid_.dm(), b_vec_.get(), &b));
+  double imbalance = 0.0;
+  auto coefficient = [&](int il, int jl, int ir, int jr, const FaceGeometry& face) {
+    const Vec2 d = grid_.centre(ir, jr) - grid_.centre(il, jl);
+    const double wl = dot(grid_.centre(ir, jr) - face.centre, d) / dot(d, d);
+    const double dc = wl * d_corr_(il, jl) + (1.0 - wl) * d_corr_(ir, jr);
+    return dc * dot(face.area, face.area) / dot(face.area, d);
+  };
+  for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
+    for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
+      MatStencil row{0, j, i, 0};
+      MatStencil cols[5];
+      double vals[5];
+      int n = 1;
+      cols[0] = row;
+      vals[0] = 0.0;
+      double net_out = 0.0;
+      auto add = [&](int in, int jn, double coef) {
+        vals[0] += coef;
+        cols[n] = MatStencil{0, jn, in, 0};
+        vals[n++] = -coef;
+      };
+      if (grid_.has_east(i)) add(i + 1, j, coefficient(i, j, i + 1, j, grid_.east_face(i, j)));
+      if (grid_.has_west(i)) add(i - 1, j, coefficient(i - 1, j, i, j, grid_.east_face(i - 1, j)));
+      if (grid_.has_north(j)) add(i, j + 1, coefficient(i, j, i, j + 1, grid_.north_face(i, j)));
+      if (grid_.has_south(j)) add(i, j - 1, coefficient(i, j - 1, i, j, grid_.north_face(i, j - 1)));
+      net_out += flux_e_(i, j) + flux_n_(i, j);
+      net_out -= (i == 0 && !grid_.periodic_x()) ? flux_w_[j] : flux_e_(i - 1, j);
+      net_out -= (j == 0) ? flux_s_[i] : flux_n_(i, j - 1);
+      b[j][i] = -net_out;
+      imbalance += std::abs(net_out);
+      check_petsc(MatSetValuesStencil(a, 1, &row, n, cols, vals, ADD_VALUES));
+    }
+  }
+  for (const auto& f : bfaces_) {
+    if (!is_pressure_boundary(f)) continue;
+    const Vec2 d = f.centre - grid_.centre(f.i, f.j);
+    const double coef = d_corr_(f.i, f.j) * dot(f.area, f.area) / dot(f.area, d);
+    MatStencil row{0, f.j, f.i, 0};
+    check_petsc(MatSetValuesStencil(a, 1, &row, 1, &row, &coef, ADD_VALUES));
+  }
+  check_petsc(DMDAVecRestoreArray(grid_.dm(), b_vec_.get(), &b));
+  check_petsc(MatAssemblyBegin(a, MAT_FINAL_ASSEMBLY));
+  check_petsc(MatAssemblyEnd(a, MAT_FINAL_ASSEMBLY));
+  status.absolute.continuity = grid_.global_sum(imbalance);
+  if (null_space_) check_petsc(MatNullSpaceRemove(null_space_.get(), b_vec_.get()));
+  check_petsc(KSPSetOperators(ksp_pc_.get(), a, a));
+  std::fill(pc_.data().begin(), pc_.data().end(), 0.0);
+  solve_linear(ksp_pc_.get(), b_vec_.get(), pc_, status.pressure_iterations, status.linear_solves_converged);
+  pc_.exchange();
+}
+
+void FlowSolver::correct() {
+  // Flux corrections F' = -A_f (p'_R - p'_L) keep every cell's mass balance to solver tolerance.
+  auto coefficient = [&](int il, int jl, int ir, int jr, const FaceGeometry& face) {
+    const Vec2 d = grid_.centre(ir, jr) - grid_.centre(il, jl);
+    const double wl = dot(grid_.centre(ir, jr) - face.centre, d) / dot(d, d);
+    const double dc = wl * d_corr_(il, jl) + (1.0 - wl) * d_corr_(ir, jr);
+    return dc * dot(face.area, face.area) / dot(face.area, d);
+  };
+  for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
+    for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
+      if (grid_.has_east(i))
+        flux_e_(i, j) -= coefficient(i, j, i + 1, j, grid_.east_face(i, j)) * (pc_(i + 1, j) - pc_(i, j));
+      if (grid_.has_north(j))
+        flux_n_(i, j) -= coefficient(i, j, i, j + 1, grid_.north_face(i, j)) * (pc_(i, j + 1) - pc_(i, j));
+    }
+  }
+  for (const auto& f : bfaces_) {
+    if (!is_pressure_boundary(f)) continue;
+    const Vec2 d = f.centre - grid_.centre(f.i, f.j);
+    boundary_flux_ref(f) += d_corr_(f.i, f.j) * dot(f.area, f.area) / dot(f.area, d) * pc_(f.i, f.j);
+  }
+  lsq_pressure_->compute(pc_, zero_b_, grad_pc_);
+  const double alpha_p = spec_.iterations.relax_pressure;
+  double p_sum = 0.0, volume = 0.0;
+  for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
+    for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
+      const Vec2 g = grad_pc_(i, j);
+      vel_.x(i, j) -= d_corr_(i, j) * g.x;
+      vel_.y(i, j) -= d_corr_(i, j) * g.y;
+      p_(i, j) += alpha_p * pc_(i, j);
+      p_sum += p_(i, j) * grid_.volume(i, j);
+      volume += grid_.volume(i, j);
+    }
+  }
+  if (!has_pressure_boundary_) {
+    // Pressure level of a closed/periodic domain: zero volume-weighted mean.
+    const double mean = grid_.global_sum(p_sum) / grid_.global_sum(volume);
+    for (int j = grid_.y_begin(); j < grid_.y_end(); ++j)
+      for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) p_(i, j) -= mean;
+  }
+  vel_.exchange();
+  p_.exchange();
+  flux_e_.exchange();
+  flux_n_.exchange();
+}
+
+}  // namespace wallrans

@@ -1,0 +1,113 @@
+// SIMPLE / SIMPLEC pressure-correction solver for steady incompressible flow on a collocated
+// curvilinear grid (Ferziger & Peric 2002, ch. 7-8; Patankar 1980), with Rhie-Chow face fluxes
+// made independent of the relaxation factor by the memory term of Majumdar (1988).
+#pragma once
+
+#include <functional>
+#include <vector>
+
+#include "core/case_spec.hpp"
+#include "discretization/least_squares_gradient.hpp"
+#include "grid/boundary.hpp"
+#include "grid/boundary_faces.hpp"
+#include "grid/grid.hpp"
+#include "linear/petsc_handles.hpp"
+#include "models/turbulence_model.hpp"
+
+namespace wallrans {
+
+struct ResidualNorms {
+  double u = 0, v = 0, continuity = 0;
+};
+
+struct IterationStatus {
+  int iteration = 0;
+  ResidualNorms absolute;    ///< L1 norms: momentum imbalance [m^3/s^2], mass imbalance [m^2/s]
+  ResidualNorms normalised;  ///< momentum: / largest momentum residual of iterations 1-5; continuity: / (U_ref L_ref)
+  int momentum_iterations = 0;
+  int pressure_iterations = 0;
+  bool linear_solves_converged = true;
+};
+
+/// Wall data of one no-slip wall face owned by this rank.
+struct WallSample {
+  Side side;
+  int index;
+  Vec2 centre;
+  double shear_stress;  ///< nu dU_t/dn at the wall, sign along the tangent with t.x >= 0 [m^2/s^2]
+  double cf;            ///< 2 tau / U_ref^2
+  double cp;            ///< (p_w - p_ref) / (U_ref^2 / 2)
+  double first_cell_distance;  ///< normal distance wall -> first cell centre [m]
+};
+
+class FlowSolver {
+ public:
+  /// Collective. The spec, grid, boundary map and model must outlive the solver.
+  FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap& boundaries, TurbulenceModel& model);
+  FlowSolver(const FlowSolver&) = delete;
+  FlowSolver& operator=(const FlowSolver&) = delete;
+
+  /// Extra momentum source per unit mass s(x) [m/s^2] (manufactured solutions).
+  void set_momentum_source(std::function<Vec2(Vec2)> source) { source_ = std::move(source); }
+  /// Replaces the velocity of wall and inflow segments by a function of position.
+  void set_boundary_velocity(std::function<Vec2(Vec2)> velocity) { boundary_velocity_ = std::move(velocity); }
+
+  /// Collective: one outer iteration (momentum predictor, pressure correction, corrections,
+  /// turbulence model update).
+  IterationStatus iterate();
+  bool converged(const IterationStatus& status) const;
+
+  const VectorField& velocity() const { return vel_; }
+  const Field& pressure() const { return p_; }
+  const Field& eddy_viscosity() const { return model_.eddy_viscosity(); }
+  const VectorField& grad_u() const { return grad_u_; }
+  const VectorField& grad_v() const { return grad_v_; }
+  const Grid& grid() const { return grid_; }
+  /// Local: the no-slip wall faces owned by this rank.
+  std::vector<WallSample> wall_samples() const;
+  /// Local: flux through the boundary face [m^2/s], positive out of the domain.
+  double boundary_flux(const BoundaryFace& face) const;
+  const std::vector<BoundaryFace>& boundary_faces() const { return bfaces_; }
+
+ private:
+  struct FaceTerms;
+  void update_velocity_boundary_values();
+  void update_pressure_gradient_and_boundary_values();
+  void assemble_momentum(ResidualNorms& residual);
+  void solve_momentum(IterationStatus& status);
+  void predict_fluxes();
+  void assemble_and_solve_pressure_correction(IterationStatus& status);
+  void correct();
+  FaceTerms interior_face_terms(int il, int jl, int ir, int jr, const FaceGeometry& face, double flux) const;
+  double interior_flux(int il, int jl, int ir, int jr, const FaceGeometry& face, double flux_old) const;
+  double normal_derivative(const Field& phi, const VectorField& grad, double phi_b, const BoundaryFace& face) const;
+  double& boundary_flux_ref(const BoundaryFace& face);
+  double& boundary_flux_old_ref(const BoundaryFace& face);
+  const BoundarySegmentSpec& segment(const BoundaryFace& face) const { return boundaries_.spec(face.side, face.index); }
+  bool is_pressure_boundary(const BoundaryFace& face) const;
+  void solve_linear(KSP ksp, Vec rhs, Field& solution, int& iterations, bool& converged);
+
+  const CaseSpec& spec_;
+  const Grid& grid_;
+  const BoundaryMap& boundaries_;
+  TurbulenceModel& model_;
+  std::vector<BoundaryFace> bfaces_;
+  std::function<Vec2(Vec2)> source_, boundary_velocity_;
+  bool has_pressure_boundary_ = false;
+  int iteration_ = 0;
+
+  VectorField vel_, vel_old_, grad_u_, grad_v_, grad_p_, grad_pc_;
+  Field p_, pc_, nu_eff_, d_rc_, d_corr_, flux_e_, flux_n_, flux_e_old_, flux_n_old_;
+  std::vector<double> flux_w_, flux_s_, flux_w_old_, flux_s_old_;  // west/south boundary faces
+  BoundaryValues u_b_, v_b_, p_b_, zero_b_;
+  std::unique_ptr<LeastSquaresGradient> lsq_all_, lsq_pressure_;
+  std::vector<double> rhs_u_, rhs_v_, diag_;  // owned order
+
+  OwnedMat a_mom_, a_pc_;
+  OwnedVec b_vec_, x_vec_;
+  OwnedKsp ksp_mom_, ksp_pc_;
+  OwnedNullSpace null_space_;
+  ResidualNorms reference_;
+};
+
+}  // namespace wallrans
