@@ -1,0 +1,449 @@
+// Reads the case layout documented in configs/README.md into CaseSpec, one section at a time,
+// then writes it back with every default filled in. All defaults live in CaseSpec's member
+// initialisers; this file only overrides them with what the case file says.
+#include "io/case_loader.hpp"
+
+#include <array>
+#include <cerrno>
+#include <filesystem>
+#include <fstream>
+#include <functional>
+#include <sstream>
+#include <string>
+#include <system_error>
+#include <vector>
+
+#include "core/error.hpp"
+#include "io/yaml_reader.hpp"
+
+namespace wallrans {
+
+namespace {
+
+using yaml_reader::number_text;
+using yaml_reader::Section;
+using yaml_reader::Value;
+
+constexpr std::array all_generators{GridGenerator::channel, GridGenerator::cavity, GridGenerator::plate,
+                                    GridGenerator::skewed_box};
+constexpr std::array all_sides{Side::left, Side::right, Side::bottom, Side::top};
+constexpr std::array all_kinds{BoundaryKind::wall, BoundaryKind::inflow, BoundaryKind::outflow,
+                               BoundaryKind::slip, BoundaryKind::free};
+constexpr std::array all_couplings{Coupling::simple, Coupling::simplec};
+constexpr std::array all_schemes{ConvectionScheme::upwind, ConvectionScheme::linear_upwind,
+                                 ConvectionScheme::bounded_linear_upwind, ConvectionScheme::central};
+// "none" is the absence of the periodic section, so it is not a value a case file can name.
+constexpr std::array periodic_axes{PeriodicAxis::x};
+// Models are added here as they are implemented.
+constexpr std::array<const char*, 1> turbulence_models{"laminar"};
+
+const std::string any_number = "a number";
+const std::string positive_number = "a number > 0";
+const std::string velocity_pair = "2 numbers [u, v]";
+
+bool is_positive(double x) { return x > 0.0; }
+bool is_non_negative(double x) { return x >= 0.0; }
+
+const char* name_of(const char* name) { return name; }
+const char* name_of(Side side) { return to_string(side); }
+const char* name_of(BoundaryKind kind) { return to_string(kind); }
+
+const char* name_of(GridGenerator generator) {
+  switch (generator) {
+    case GridGenerator::channel: return "channel";
+    case GridGenerator::cavity: return "cavity";
+    case GridGenerator::plate: return "plate";
+    case GridGenerator::skewed_box: return "skewed_box";
+  }
+  return "?";
+}
+
+const char* name_of(PeriodicAxis axis) { return axis == PeriodicAxis::x ? "x" : "none"; }
+
+const char* name_of(Coupling coupling) { return coupling == Coupling::simple ? "simple" : "simplec"; }
+
+const char* name_of(ConvectionScheme scheme) {
+  switch (scheme) {
+    case ConvectionScheme::upwind: return "upwind";
+    case ConvectionScheme::linear_upwind: return "linear_upwind";
+    case ConvectionScheme::bounded_linear_upwind: return "bounded_linear_upwind";
+    case ConvectionScheme::central: return "central";
+  }
+  return "?";
+}
+
+template <class Choice, std::size_t n>
+std::string one_of(const std::array<Choice, n>& choices) {
+  std::string text = "one of ";
+  for (std::size_t k = 0; k < n; ++k) text += (k > 0 ? ", " : "") + std::string(name_of(choices[k]));
+  return text;
+}
+
+template <class Choice, std::size_t n>
+Choice read_enum(const Value& value, const std::array<Choice, n>& choices) {
+  const std::string expected = one_of(choices);
+  const std::string text = value.text(expected);
+  for (Choice choice : choices) {
+    if (text == name_of(choice)) return choice;
+  }
+  value.fail(expected);
+}
+
+double number_or(const Section& section, const char* key, double fallback, const std::string& expected,
+                 const std::function<bool(double)>& ok = {}) {
+  const auto value = section.find(key);
+  return value ? value->number(expected, ok) : fallback;
+}
+
+int integer_or(const Section& section, const char* key, int fallback, const std::string& expected,
+               const std::function<bool(int)>& ok) {
+  const auto value = section.find(key);
+  return value ? value->integer(expected, ok) : fallback;
+}
+
+std::string text_or(const Section& section, const char* key, const std::string& fallback, bool allow_empty) {
+  const auto value = section.find(key);
+  if (!value) return fallback;
+  const std::string expected = allow_empty ? "a string" : "a non-empty string";
+  std::string text = value->text(expected);
+  if (!allow_empty && text.empty()) value->fail(expected);
+  return text;
+}
+
+FlowSpec read_flow(const Value& value) {
+  const Section section = value.section({"kinematic_viscosity", "reference_velocity", "reference_length",
+                                         "reference_pressure", "body_force", "initial_velocity"});
+  FlowSpec flow;
+  flow.kinematic_viscosity =
+      section.require("kinematic_viscosity", positive_number).number(positive_number, is_positive);
+  flow.reference_velocity =
+      number_or(section, "reference_velocity", flow.reference_velocity, positive_number, is_positive);
+  flow.reference_length =
+      number_or(section, "reference_length", flow.reference_length, positive_number, is_positive);
+  flow.reference_pressure = number_or(section, "reference_pressure", flow.reference_pressure, any_number);
+  if (const auto force = section.find("body_force")) flow.body_force = force->vec2("2 numbers [f_x, f_y]");
+  if (const auto velocity = section.find("initial_velocity")) {
+    flow.initial_velocity = velocity->vec2(velocity_pair);
+  }
+  return flow;
+}
+
+// Keys that only one generator reads; giving them to another would be silently ignored.
+void reject_foreign_keys(const Section& section, const GridSpec& grid, GridGenerator owner,
+                         std::initializer_list<const char*> keys) {
+  if (grid.generator == owner) return;
+  for (const char* key : keys) {
+    if (const auto value = section.find(key)) {
+      value->fail(std::string("this key only with generator ") + name_of(owner),
+                  std::string("generator ") + name_of(grid.generator));
+    }
+  }
+}
+
+void read_plate_keys(const Section& section, GridSpec& grid) {
+  const std::string n = std::to_string(grid.cells_x);
+  grid.run_up = number_or(section, "run_up", grid.run_up, "a number >= 0", is_non_negative);
+  grid.run_up_cells =
+      integer_or(section, "run_up_cells", grid.run_up_cells, "an integer in [0, cells_x) = [0, " + n + ")",
+                 [&](int cells) { return cells >= 0 && cells < grid.cells_x; });
+  // The run-up needs cells and cells need a run-up (the generator builds both or neither).
+  if (grid.run_up > 0.0 && grid.run_up_cells == 0) {
+    const std::string expected = "an integer in [1, " + n + ") because grid.run_up > 0";
+    if (const auto cells = section.find("run_up_cells")) cells->fail(expected);
+    section.missing("run_up_cells", expected);
+  }
+  if (grid.run_up == 0.0 && grid.run_up_cells > 0) {
+    section.find("run_up_cells")->fail("0 because grid.run_up is 0 (give grid.run_up > 0 for a run-up)");
+  }
+  if (const auto spacing = section.find("leading_edge_spacing")) {
+    grid.leading_edge_spacing = spacing->number(positive_number, is_positive);
+  }
+}
+
+GridSpec read_grid(const Value& value) {
+  const Section section = value.section({"generator", "cells", "length", "height", "first_cell_height",
+                                         "run_up", "run_up_cells", "leading_edge_spacing", "skew_amplitude"});
+  GridSpec grid;
+  grid.generator = read_enum(section.require("generator", one_of(all_generators)), all_generators);
+  const std::string cells_expected = "2 positive integers [cells_x, cells_y]";
+  const auto cells = section.require("cells", cells_expected).integers(2, cells_expected, [](int cells) {
+    return cells >= 1;
+  });
+  grid.cells_x = cells[0];
+  grid.cells_y = cells[1];
+  grid.length = number_or(section, "length", grid.length, positive_number, is_positive);
+  grid.height = number_or(section, "height", grid.height, positive_number, is_positive);
+  if (const auto height = section.find("first_cell_height")) {
+    grid.first_cell_height = height->number(positive_number, is_positive);
+  }
+  reject_foreign_keys(section, grid, GridGenerator::plate,
+                      {"run_up", "run_up_cells", "leading_edge_spacing"});
+  reject_foreign_keys(section, grid, GridGenerator::skewed_box, {"skew_amplitude"});
+  if (grid.generator == GridGenerator::plate) read_plate_keys(section, grid);
+  grid.skew_amplitude = number_or(section, "skew_amplitude", grid.skew_amplitude, "a number in [0, 0.2)",
+                                  [](double a) { return a >= 0.0 && a < 0.2; });
+  return grid;
+}
+
+PeriodicSpec read_periodic(const Value& value, const GridSpec& grid) {
+  const Section section = value.section({"axis", "mean_pressure_gradient"});
+  PeriodicSpec periodic;
+  const Value axis = section.require("axis", one_of(periodic_axes));
+  periodic.axis = read_enum(axis, periodic_axes);
+  if (grid.cells_x < 2) {
+    axis.fail("grid.cells_x >= 2 for a periodic x axis", "cells_x = " + std::to_string(grid.cells_x));
+  }
+  periodic.mean_pressure_gradient = number_or(section, "mean_pressure_gradient", 0.0, any_number);
+  return periodic;
+}
+
+bool takes_velocity(BoundaryKind kind) {
+  return kind == BoundaryKind::wall || kind == BoundaryKind::inflow || kind == BoundaryKind::free;
+}
+bool takes_pressure(BoundaryKind kind) { return kind == BoundaryKind::outflow || kind == BoundaryKind::free; }
+
+BoundarySegmentSpec read_segment(const Value& entry, const FlowSpec& flow, const PeriodicSpec& periodic,
+                                 int periodic_line) {
+  const Section section = entry.section({"side", "kind", "from", "to", "velocity", "pressure"});
+  BoundarySegmentSpec segment;
+  segment.line = entry.line();
+  const Value side = section.require("side", one_of(all_sides));
+  segment.side = read_enum(side, all_sides);
+  segment.kind = read_enum(section.require("kind", one_of(all_kinds)), all_kinds);
+  const std::string kind = name_of(segment.kind);
+  if (const auto from = section.find("from")) segment.from = from->number(any_number);
+  if (const auto to = section.find("to")) {
+    segment.to = to->number(any_number);
+    if (segment.from && !(*segment.from < *segment.to)) {
+      to->fail("a number greater than from = " + number_text(*segment.from));
+    }
+  }
+  if (const auto velocity = section.find("velocity")) {
+    if (!takes_velocity(segment.kind)) {
+      velocity->fail("no velocity for kind '" + kind + "' (only wall, inflow and free take one)");
+    }
+    segment.velocity = velocity->vec2(velocity_pair);
+  } else if (segment.kind == BoundaryKind::inflow) {
+    section.missing("velocity", velocity_pair + " for kind 'inflow'");
+  }
+  if (const auto pressure = section.find("pressure")) {
+    if (!takes_pressure(segment.kind)) {
+      pressure->fail("no pressure for kind '" + kind + "' (only outflow and free take one)");
+    }
+    segment.pressure = pressure->number(any_number);
+  } else if (takes_pressure(segment.kind)) {
+    segment.pressure = flow.reference_pressure;
+  }
+  const bool on_x_end = segment.side == Side::left || segment.side == Side::right;
+  if (periodic.axis == PeriodicAxis::x && on_x_end) {
+    // Reported at the segment's own line, which is where the user has to act.
+    Value(side.source(), side.node(), side.key(), segment.line)
+        .fail("no segment on side '" + std::string(name_of(segment.side)) +
+                  "' because periodic.axis is x (line " + std::to_string(periodic_line) + ")",
+              "a " + kind + " segment");
+  }
+  return segment;
+}
+
+std::vector<BoundarySegmentSpec> read_boundaries(const Value& value, const FlowSpec& flow,
+                                                 const PeriodicSpec& periodic, int periodic_line) {
+  const std::string expected = "a non-empty list of boundary segments";
+  const auto entries = value.items(expected);
+  if (entries.empty()) value.fail(expected);
+  std::vector<BoundarySegmentSpec> segments;
+  for (const Value& entry : entries) segments.push_back(read_segment(entry, flow, periodic, periodic_line));
+  return segments;
+}
+
+TurbulenceSpec read_turbulence(const Value& value) {
+  const Section section = value.section({"model"});
+  TurbulenceSpec turbulence;
+  if (const auto model = section.find("model")) {
+    const std::string expected = one_of(turbulence_models) + " (other models are not available yet)";
+    turbulence.model = model->text(expected);
+    bool known = false;
+    for (const char* name : turbulence_models) known = known || turbulence.model == name;
+    if (!known) model->fail(expected);
+  }
+  return turbulence;
+}
+
+IterationSpec read_iterations(const Value& value) {
+  const Section section = value.section({"coupling", "max", "residual_drop", "relax_velocity",
+                                         "relax_pressure", "convection", "report_every", "petsc_options"});
+  IterationSpec iterations;
+  if (const auto coupling = section.find("coupling")) {
+    iterations.coupling = read_enum(*coupling, all_couplings);
+  }
+  iterations.max =
+      integer_or(section, "max", iterations.max, "an integer >= 1", [](int n) { return n >= 1; });
+  const auto open_unit = [](double x) { return x > 0.0 && x < 1.0; };
+  iterations.residual_drop =
+      number_or(section, "residual_drop", iterations.residual_drop, "a number in (0, 1)", open_unit);
+  iterations.relax_velocity =
+      number_or(section, "relax_velocity", iterations.relax_velocity, "a number in (0, 1)", open_unit);
+  iterations.relax_pressure = number_or(section, "relax_pressure", iterations.relax_pressure,
+                                        "a number in (0, 1]", [](double x) { return x > 0.0 && x <= 1.0; });
+  if (const auto scheme = section.find("convection")) iterations.convection = read_enum(*scheme, all_schemes);
+  iterations.report_every = integer_or(section, "report_every", iterations.report_every, "an integer >= 0",
+                                       [](int n) { return n >= 0; });
+  iterations.petsc_options = text_or(section, "petsc_options", iterations.petsc_options, true);
+  return iterations;
+}
+
+OutputSpec read_output(const Value& value) {
+  const Section section = value.section({"directory", "fields_every", "wall_data"});
+  OutputSpec output;
+  output.directory = text_or(section, "directory", output.directory, false);
+  output.fields_every = integer_or(section, "fields_every", output.fields_every, "an integer >= 0",
+                                   [](int n) { return n >= 0; });
+  if (const auto wall_data = section.find("wall_data")) output.wall_data = wall_data->boolean();
+  return output;
+}
+
+// Emitter helpers: numbers go out as their shortest exact text so the round trip is lossless.
+void put(YAML::Emitter& out, const char* key, double x) {
+  out << YAML::Key << key << YAML::Value << number_text(x);
+}
+void put(YAML::Emitter& out, const char* key, int n) { out << YAML::Key << key << YAML::Value << n; }
+void put(YAML::Emitter& out, const char* key, const char* name) {
+  out << YAML::Key << key << YAML::Value << name;
+}
+void put_text(YAML::Emitter& out, const char* key, const std::string& text) {
+  out << YAML::Key << key << YAML::Value << YAML::DoubleQuoted << text;
+}
+void put(YAML::Emitter& out, const char* key, Vec2 v) {
+  out << YAML::Key << key << YAML::Value << YAML::Flow << YAML::BeginSeq << number_text(v.x)
+      << number_text(v.y) << YAML::EndSeq;
+}
+
+void put_grid(YAML::Emitter& out, const GridSpec& grid) {
+  out << YAML::Key << "grid" << YAML::Value << YAML::BeginMap;
+  put(out, "generator", name_of(grid.generator));
+  out << YAML::Key << "cells" << YAML::Value << YAML::Flow << YAML::BeginSeq << grid.cells_x << grid.cells_y
+      << YAML::EndSeq;
+  put(out, "length", grid.length);
+  put(out, "height", grid.height);
+  if (grid.first_cell_height) put(out, "first_cell_height", *grid.first_cell_height);
+  if (grid.generator == GridGenerator::plate) {
+    put(out, "run_up", grid.run_up);
+    put(out, "run_up_cells", grid.run_up_cells);
+    if (grid.leading_edge_spacing) put(out, "leading_edge_spacing", *grid.leading_edge_spacing);
+  }
+  if (grid.generator == GridGenerator::skewed_box) put(out, "skew_amplitude", grid.skew_amplitude);
+  out << YAML::EndMap;
+}
+
+void put_boundaries(YAML::Emitter& out, const std::vector<BoundarySegmentSpec>& segments) {
+  out << YAML::Key << "boundaries" << YAML::Value << YAML::BeginSeq;
+  for (const auto& segment : segments) {
+    out << YAML::Flow << YAML::BeginMap;
+    put(out, "side", name_of(segment.side));
+    put(out, "kind", name_of(segment.kind));
+    if (segment.from) put(out, "from", *segment.from);
+    if (segment.to) put(out, "to", *segment.to);
+    if (takes_velocity(segment.kind)) put(out, "velocity", segment.velocity);
+    if (segment.pressure) put(out, "pressure", *segment.pressure);
+    out << YAML::EndMap;
+  }
+  out << YAML::EndSeq;
+}
+
+}  // namespace
+
+CaseSpec parse_case_text(const std::string& text, const std::string& source_name) {
+  const Value document = yaml_reader::parse_document(text, source_name);
+  const Section top = document.section(
+      {"title", "flow", "grid", "boundaries", "periodic", "turbulence", "iterations", "output"});
+  CaseSpec spec;
+  spec.source_file = source_name;
+  spec.title = text_or(top, "title", spec.title, false);
+  spec.flow = read_flow(top.require("flow", "a mapping (the flow section)"));
+  spec.grid = read_grid(top.require("grid", "a mapping (the grid section)"));
+  // Periodicity is read before the boundaries, which must leave the periodic sides free.
+  const auto periodic = top.find("periodic");
+  if (periodic) spec.periodic = read_periodic(*periodic, spec.grid);
+  spec.boundaries = read_boundaries(top.require("boundaries", "a non-empty list of boundary segments"),
+                                    spec.flow, spec.periodic, periodic ? periodic->line() : 0);
+  if (const auto turbulence = top.find("turbulence")) spec.turbulence = read_turbulence(*turbulence);
+  if (const auto iterations = top.find("iterations")) spec.iterations = read_iterations(*iterations);
+  if (const auto output = top.find("output")) spec.output = read_output(*output);
+  return spec;
+}
+
+CaseSpec load_case_file(const std::string& path) {
+  std::error_code status;
+  if (std::filesystem::is_directory(path, status)) {
+    throw InputError(path + ": expected a readable case file, got a directory");
+  }
+  errno = 0;
+  std::ifstream in(path, std::ios::binary);
+  if (!in) {
+    const std::string reason =
+        errno != 0 ? std::generic_category().message(errno) : "a file that cannot be opened";
+    throw InputError(path + ": expected a readable case file, got " + reason);
+  }
+  std::ostringstream text;
+  text << in.rdbuf();
+  if (in.bad()) throw InputError(path + ": expected a readable case file, got a read error");
+  return parse_case_text(text.str(), path);
+}
+
+std::string resolved_case_yaml(const CaseSpec& spec) {
+  YAML::Emitter out;
+  out.SetIndent(2);
+  out << YAML::BeginMap;
+  put_text(out, "title", spec.title);
+
+  const FlowSpec& flow = spec.flow;
+  out << YAML::Key << "flow" << YAML::Value << YAML::BeginMap;
+  put(out, "kinematic_viscosity", flow.kinematic_viscosity);
+  put(out, "reference_velocity", flow.reference_velocity);
+  put(out, "reference_length", flow.reference_length);
+  put(out, "reference_pressure", flow.reference_pressure);
+  put(out, "body_force", flow.body_force);
+  put(out, "initial_velocity", flow.initial_velocity);
+  out << YAML::EndMap;
+
+  put_grid(out, spec.grid);
+  put_boundaries(out, spec.boundaries);
+
+  if (spec.periodic.axis != PeriodicAxis::none) {
+    out << YAML::Key << "periodic" << YAML::Value << YAML::BeginMap;
+    put(out, "axis", name_of(spec.periodic.axis));
+    put(out, "mean_pressure_gradient", spec.periodic.mean_pressure_gradient);
+    out << YAML::EndMap;
+  }
+
+  out << YAML::Key << "turbulence" << YAML::Value << YAML::BeginMap;
+  put_text(out, "model", spec.turbulence.model);
+  out << YAML::EndMap;
+
+  const IterationSpec& iterations = spec.iterations;
+  out << YAML::Key << "iterations" << YAML::Value << YAML::BeginMap;
+  put(out, "coupling", name_of(iterations.coupling));
+  put(out, "max", iterations.max);
+  put(out, "residual_drop", iterations.residual_drop);
+  put(out, "relax_velocity", iterations.relax_velocity);
+  put(out, "relax_pressure", iterations.relax_pressure);
+  put(out, "convection", name_of(iterations.convection));
+  put(out, "report_every", iterations.report_every);
+  put_text(out, "petsc_options", iterations.petsc_options);
+  out << YAML::EndMap;
+
+  out << YAML::Key << "output" << YAML::Value << YAML::BeginMap;
+  put_text(out, "directory", spec.output.directory);
+  put(out, "fields_every", spec.output.fields_every);
+  put(out, "wall_data", spec.output.wall_data ? "true" : "false");
+  out << YAML::EndMap;
+  out << YAML::EndMap;
+
+  std::string header = "# Resolved wallrans case (every default filled in)";
+  if (!spec.source_file.empty()) header += ", read from " + spec.source_file;
+  for (char& c : header) {
+    if (c == '\n' || c == '\r') c = ' ';
+  }
+  return header + "\n" + out.c_str() + "\n";
+}
+
+}  // namespace wallrans

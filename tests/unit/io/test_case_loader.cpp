@@ -1,0 +1,453 @@
+// Case loader: a full case parses field by field, defaults are filled, the resolved YAML reads back
+// to the same case, and each kind of bad input gives a one-line InputError at the right line and key.
+#include <gtest/gtest.h>
+#include <unistd.h>
+
+#include <filesystem>
+#include <fstream>
+#include <ostream>
+#include <string>
+
+#include "core/error.hpp"
+#include "io/case_loader.hpp"
+
+using namespace wallrans;
+
+namespace {
+
+// Every key of the layout, with values that differ from the defaults. Line numbers matter.
+const char* const full_plate_case = R"(title: plate_check
+flow:
+  kinematic_viscosity: 2.0e-5
+  reference_velocity: 2.5
+  reference_length: 0.5
+  reference_pressure: 1.5
+  body_force: [0.25, -9.81]
+  initial_velocity: [2.5, 0.0]
+grid:
+  generator: plate
+  cells: [96, 48]
+  length: 2.0
+  height: 0.5
+  first_cell_height: 1.0e-5
+  run_up: 0.3
+  run_up_cells: 16
+  leading_edge_spacing: 2.0e-3
+boundaries:
+  - {side: bottom, from: -0.3, to: 0.0, kind: slip}
+  - {side: bottom, from: 0.0, kind: wall}
+  - {side: left, kind: inflow, velocity: [2.5, 0.0]}
+  - side: right
+    kind: outflow
+    pressure: 0.5
+  - {side: top, kind: free, velocity: [2.5, 0.1]}
+turbulence: {model: laminar}
+iterations:
+  coupling: simple
+  max: 500
+  residual_drop: 1.0e-8
+  relax_velocity: 0.7
+  relax_pressure: 0.3
+  convection: central
+  report_every: 0
+  petsc_options: "-pressure_ksp_type cg"
+output:
+  directory: out/plate_check
+  fields_every: 100
+  wall_data: false
+)";
+
+// Only the required keys, plus the periodic and skewed_box ones.
+const char* const periodic_box_case = R"(flow: {kinematic_viscosity: 0.01}
+grid: {generator: skewed_box, cells: [8, 4], skew_amplitude: 0.05}
+periodic: {axis: x, mean_pressure_gradient: -1.0}
+boundaries:
+  - {side: bottom, kind: wall}
+  - {side: top, kind: wall}
+)";
+
+void expect_same_vec(Vec2 a, Vec2 b) {
+  EXPECT_EQ(a.x, b.x);
+  EXPECT_EQ(a.y, b.y);
+}
+
+// Field-by-field equality; source_file and segment lines say where a case came from, not what it is.
+void expect_same_case(const CaseSpec& a, const CaseSpec& b) {
+  EXPECT_EQ(a.title, b.title);
+  EXPECT_EQ(a.flow.kinematic_viscosity, b.flow.kinematic_viscosity);
+  EXPECT_EQ(a.flow.reference_velocity, b.flow.reference_velocity);
+  EXPECT_EQ(a.flow.reference_length, b.flow.reference_length);
+  EXPECT_EQ(a.flow.reference_pressure, b.flow.reference_pressure);
+  expect_same_vec(a.flow.body_force, b.flow.body_force);
+  expect_same_vec(a.flow.initial_velocity, b.flow.initial_velocity);
+  EXPECT_EQ(a.grid.generator, b.grid.generator);
+  EXPECT_EQ(a.grid.cells_x, b.grid.cells_x);
+  EXPECT_EQ(a.grid.cells_y, b.grid.cells_y);
+  EXPECT_EQ(a.grid.length, b.grid.length);
+  EXPECT_EQ(a.grid.height, b.grid.height);
+  EXPECT_EQ(a.grid.first_cell_height, b.grid.first_cell_height);
+  EXPECT_EQ(a.grid.run_up, b.grid.run_up);
+  EXPECT_EQ(a.grid.run_up_cells, b.grid.run_up_cells);
+  EXPECT_EQ(a.grid.leading_edge_spacing, b.grid.leading_edge_spacing);
+  EXPECT_EQ(a.grid.skew_amplitude, b.grid.skew_amplitude);
+  ASSERT_EQ(a.boundaries.size(), b.boundaries.size());
+  for (size_t s = 0; s < a.boundaries.size(); ++s) {
+    SCOPED_TRACE("segment " + std::to_string(s));
+    EXPECT_EQ(a.boundaries[s].side, b.boundaries[s].side);
+    EXPECT_EQ(a.boundaries[s].kind, b.boundaries[s].kind);
+    EXPECT_EQ(a.boundaries[s].from, b.boundaries[s].from);
+    EXPECT_EQ(a.boundaries[s].to, b.boundaries[s].to);
+    expect_same_vec(a.boundaries[s].velocity, b.boundaries[s].velocity);
+    EXPECT_EQ(a.boundaries[s].pressure, b.boundaries[s].pressure);
+  }
+  EXPECT_EQ(a.periodic.axis, b.periodic.axis);
+  EXPECT_EQ(a.periodic.mean_pressure_gradient, b.periodic.mean_pressure_gradient);
+  EXPECT_EQ(a.turbulence.model, b.turbulence.model);
+  EXPECT_EQ(a.iterations.coupling, b.iterations.coupling);
+  EXPECT_EQ(a.iterations.max, b.iterations.max);
+  EXPECT_EQ(a.iterations.residual_drop, b.iterations.residual_drop);
+  EXPECT_EQ(a.iterations.relax_velocity, b.iterations.relax_velocity);
+  EXPECT_EQ(a.iterations.relax_pressure, b.iterations.relax_pressure);
+  EXPECT_EQ(a.iterations.convection, b.iterations.convection);
+  EXPECT_EQ(a.iterations.report_every, b.iterations.report_every);
+  EXPECT_EQ(a.iterations.petsc_options, b.iterations.petsc_options);
+  EXPECT_EQ(a.output.directory, b.output.directory);
+  EXPECT_EQ(a.output.fields_every, b.output.fields_every);
+  EXPECT_EQ(a.output.wall_data, b.output.wall_data);
+}
+
+void expect_round_trip(const CaseSpec& spec) {
+  const std::string resolved = resolved_case_yaml(spec);
+  SCOPED_TRACE(resolved);
+  const CaseSpec again = parse_case_text(resolved, "resolved.yaml");
+  expect_same_case(spec, again);
+  // Writing the re-read case must give the same text, apart from the source named in the header.
+  const std::string body = resolved.substr(resolved.find('\n'));
+  const std::string resolved_again = resolved_case_yaml(again);
+  EXPECT_EQ(resolved_again.substr(resolved_again.find('\n')), body);
+}
+
+// The message of the InputError that `run` throws ("" and a failure if it throws none).
+template <class Run>
+std::string input_error_of(Run run) {
+  try {
+    run();
+  } catch (const InputError& error) {
+    return error.what();
+  }
+  ADD_FAILURE() << "expected an InputError";
+  return "";
+}
+
+}  // namespace
+
+TEST(CaseLoader, FullCaseSetsEveryField) {
+  const CaseSpec spec = parse_case_text(full_plate_case, "plate_check.yaml");
+  EXPECT_EQ(spec.source_file, "plate_check.yaml");
+  EXPECT_EQ(spec.title, "plate_check");
+
+  EXPECT_EQ(spec.flow.kinematic_viscosity, 2.0e-5);
+  EXPECT_EQ(spec.flow.reference_velocity, 2.5);
+  EXPECT_EQ(spec.flow.reference_length, 0.5);
+  EXPECT_EQ(spec.flow.reference_pressure, 1.5);
+  EXPECT_EQ(spec.flow.body_force.x, 0.25);
+  EXPECT_EQ(spec.flow.body_force.y, -9.81);
+  EXPECT_EQ(spec.flow.initial_velocity.x, 2.5);
+  EXPECT_EQ(spec.flow.initial_velocity.y, 0.0);
+
+  EXPECT_EQ(spec.grid.generator, GridGenerator::plate);
+  EXPECT_EQ(spec.grid.cells_x, 96);
+  EXPECT_EQ(spec.grid.cells_y, 48);
+  EXPECT_EQ(spec.grid.length, 2.0);
+  EXPECT_EQ(spec.grid.height, 0.5);
+  EXPECT_EQ(spec.grid.first_cell_height, 1.0e-5);
+  EXPECT_EQ(spec.grid.run_up, 0.3);
+  EXPECT_EQ(spec.grid.run_up_cells, 16);
+  EXPECT_EQ(spec.grid.leading_edge_spacing, 2.0e-3);
+  EXPECT_EQ(spec.grid.skew_amplitude, 0.0);
+
+  ASSERT_EQ(spec.boundaries.size(), 5u);
+  const auto& slip = spec.boundaries[0];
+  EXPECT_EQ(slip.side, Side::bottom);
+  EXPECT_EQ(slip.kind, BoundaryKind::slip);
+  EXPECT_EQ(slip.from, -0.3);
+  EXPECT_EQ(slip.to, 0.0);
+  EXPECT_FALSE(slip.pressure.has_value());
+  EXPECT_EQ(slip.line, 19);
+  const auto& wall = spec.boundaries[1];
+  EXPECT_EQ(wall.side, Side::bottom);
+  EXPECT_EQ(wall.kind, BoundaryKind::wall);
+  EXPECT_EQ(wall.from, 0.0);
+  EXPECT_FALSE(wall.to.has_value());
+  EXPECT_EQ(wall.velocity.x, 0.0);
+  EXPECT_EQ(wall.velocity.y, 0.0);
+  EXPECT_EQ(wall.line, 20);
+  const auto& inflow = spec.boundaries[2];
+  EXPECT_EQ(inflow.side, Side::left);
+  EXPECT_EQ(inflow.kind, BoundaryKind::inflow);
+  EXPECT_FALSE(inflow.from.has_value());
+  EXPECT_EQ(inflow.velocity.x, 2.5);
+  EXPECT_EQ(inflow.velocity.y, 0.0);
+  EXPECT_EQ(inflow.line, 21);
+  const auto& outflow = spec.boundaries[3];  // block style: the line of the entry's first key
+  EXPECT_EQ(outflow.side, Side::right);
+  EXPECT_EQ(outflow.kind, BoundaryKind::outflow);
+  EXPECT_EQ(outflow.pressure, 0.5);
+  EXPECT_EQ(outflow.line, 22);
+  const auto& free = spec.boundaries[4];
+  EXPECT_EQ(free.side, Side::top);
+  EXPECT_EQ(free.kind, BoundaryKind::free);
+  EXPECT_EQ(free.velocity.x, 2.5);
+  EXPECT_EQ(free.velocity.y, 0.1);
+  EXPECT_EQ(free.pressure, 1.5) << "a free boundary without pressure takes flow.reference_pressure";
+  EXPECT_EQ(free.line, 25);
+
+  EXPECT_EQ(spec.periodic.axis, PeriodicAxis::none);
+  EXPECT_EQ(spec.turbulence.model, "laminar");
+  EXPECT_EQ(spec.iterations.coupling, Coupling::simple);
+  EXPECT_EQ(spec.iterations.max, 500);
+  EXPECT_EQ(spec.iterations.residual_drop, 1.0e-8);
+  EXPECT_EQ(spec.iterations.relax_velocity, 0.7);
+  EXPECT_EQ(spec.iterations.relax_pressure, 0.3);
+  EXPECT_EQ(spec.iterations.convection, ConvectionScheme::central);
+  EXPECT_EQ(spec.iterations.report_every, 0);
+  EXPECT_EQ(spec.iterations.petsc_options, "-pressure_ksp_type cg");
+  EXPECT_EQ(spec.output.directory, "out/plate_check");
+  EXPECT_EQ(spec.output.fields_every, 100);
+  EXPECT_FALSE(spec.output.wall_data);
+}
+
+TEST(CaseLoader, MinimalCaseTakesDocumentedDefaults) {
+  const CaseSpec spec = parse_case_text(periodic_box_case, "box.yaml");
+  EXPECT_EQ(spec.title, "case");
+  EXPECT_EQ(spec.flow.kinematic_viscosity, 0.01);
+  EXPECT_EQ(spec.flow.reference_velocity, 1.0);
+  EXPECT_EQ(spec.flow.reference_length, 1.0);
+  EXPECT_EQ(spec.flow.reference_pressure, 0.0);
+  EXPECT_EQ(spec.grid.generator, GridGenerator::skewed_box);
+  EXPECT_EQ(spec.grid.cells_x, 8);
+  EXPECT_EQ(spec.grid.cells_y, 4);
+  EXPECT_EQ(spec.grid.length, 1.0);
+  EXPECT_EQ(spec.grid.height, 1.0);
+  EXPECT_FALSE(spec.grid.first_cell_height.has_value());
+  EXPECT_EQ(spec.grid.skew_amplitude, 0.05);
+  EXPECT_EQ(spec.periodic.axis, PeriodicAxis::x);
+  EXPECT_EQ(spec.periodic.mean_pressure_gradient, -1.0);
+  ASSERT_EQ(spec.boundaries.size(), 2u);
+  EXPECT_EQ(spec.boundaries[0].line, 5);
+  EXPECT_FALSE(spec.boundaries[0].pressure.has_value()) << "walls take no pressure";
+  EXPECT_EQ(spec.turbulence.model, "laminar");
+  EXPECT_EQ(spec.iterations.coupling, Coupling::simplec);
+  EXPECT_EQ(spec.iterations.max, 2000);
+  EXPECT_EQ(spec.iterations.residual_drop, 1e-6);
+  EXPECT_EQ(spec.iterations.relax_velocity, 0.8);
+  EXPECT_EQ(spec.iterations.relax_pressure, 1.0);
+  EXPECT_EQ(spec.iterations.convection, ConvectionScheme::bounded_linear_upwind);
+  EXPECT_EQ(spec.iterations.report_every, 50);
+  EXPECT_EQ(spec.iterations.petsc_options, "");
+  EXPECT_EQ(spec.output.directory, "out");
+  EXPECT_EQ(spec.output.fields_every, 0);
+  EXPECT_TRUE(spec.output.wall_data);
+}
+
+TEST(CaseLoader, ResolvedYamlReadsBackToTheSameCase) {
+  expect_round_trip(parse_case_text(full_plate_case, "plate_check.yaml"));
+  expect_round_trip(parse_case_text(periodic_box_case, "box.yaml"));
+}
+
+TEST(CaseLoader, ResolvedYamlKeepsAwkwardStringsAndNumbersExact) {
+  CaseSpec spec = parse_case_text(full_plate_case, "plate_check.yaml");
+  spec.title = "a: \"quoted\" # not a comment";
+  spec.output.directory = "out dir/true";
+  spec.iterations.petsc_options = "";
+  spec.flow.kinematic_viscosity = 1.0 / 3.0;
+  spec.flow.reference_pressure = -1.0e-300;
+  spec.grid.first_cell_height = 0.1 + 0.2;  // 0.30000000000000004 must not come back as 0.3
+  spec.boundaries[3].pressure = 123456789.125;
+  expect_round_trip(spec);
+  const std::string resolved = resolved_case_yaml(spec);
+  EXPECT_NE(resolved.find("# Resolved wallrans case"), std::string::npos);
+  EXPECT_NE(resolved.find("wall_data: false"), std::string::npos);
+}
+
+TEST(CaseLoader, LoadsFileAndNamesItInMessages) {
+  const auto path =
+      std::filesystem::temp_directory_path() / ("wallrans_case_" + std::to_string(getpid()) + ".yaml");
+  { std::ofstream(path) << periodic_box_case; }
+  const CaseSpec spec = load_case_file(path.string());
+  EXPECT_EQ(spec.source_file, path.string());
+  ASSERT_EQ(spec.boundaries.size(), 2u);
+  EXPECT_EQ(spec.boundaries[1].line, 6);
+  {
+    std::ofstream(path) << "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\n"
+                           "boundaries: [{side: top, kind: wal}]\n";
+  }
+  const std::string message = input_error_of([&] { load_case_file(path.string()); });
+  EXPECT_EQ(message.rfind(path.string() + ":3: key 'boundaries[0].kind': expected one of wall,", 0), 0u)
+      << message;
+  std::filesystem::remove(path);
+}
+
+TEST(CaseLoader, UnreadableFileIsAnInputError) {
+  const std::string missing = "no_such_directory/missing_case.yaml";
+  const std::string message = input_error_of([&] { load_case_file(missing); });
+  EXPECT_EQ(message.rfind(missing + ": expected a readable case file, got ", 0), 0u) << message;
+  const std::string directory = std::filesystem::temp_directory_path().string();
+  const std::string directory_message = input_error_of([&] { load_case_file(directory); });
+  EXPECT_EQ(directory_message, directory + ": expected a readable case file, got a directory");
+}
+
+// Bad inputs: each names the source, the 1-based line and the dotted key, and says "expected".
+
+struct BadCase {
+  const char* name;
+  const char* text;
+  int line;          // expected 1-based line in the message (0: no line)
+  const char* key;   // expected dotted key ("" for syntax errors)
+  const char* also;  // a further part of the message, e.g. the allowed values
+};
+
+// Lets GoogleTest name a failing case instead of dumping its bytes.
+void PrintTo(const BadCase& bad, std::ostream* out) { *out << bad.name; }
+
+class BadInput : public ::testing::TestWithParam<BadCase> {};
+
+TEST_P(BadInput, IsOneLineInputErrorAtTheRightLineAndKey) {
+  const BadCase& bad = GetParam();
+  const std::string message = input_error_of([&] { parse_case_text(bad.text, "bad.yaml"); });
+  SCOPED_TRACE(message);
+  const std::string where = bad.line > 0 ? "bad.yaml:" + std::to_string(bad.line) + ": " : "bad.yaml: ";
+  EXPECT_EQ(message.rfind(where, 0), 0u);
+  if (*bad.key != '\0') {
+    EXPECT_NE(message.find(where + "key '" + bad.key + "': expected "), std::string::npos);
+  }
+  EXPECT_NE(message.find("expected "), std::string::npos);
+  EXPECT_NE(message.find(", got "), std::string::npos);
+  EXPECT_NE(message.find(bad.also), std::string::npos);
+  EXPECT_EQ(message.find('\n'), std::string::npos);
+}
+
+INSTANTIATE_TEST_SUITE_P(
+    CaseLoader, BadInput,
+    ::testing::Values(
+        BadCase{"malformed_yaml",
+                "flow:\n  kinematic_viscosity: 0.01\n reference_velocity: 1.0\ngrid: {generator: cavity}\n",
+                3, "", "expected valid YAML, got a syntax error"},
+        BadCase{"unclosed_list",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8}\n", 2, "",
+                "syntax error"},
+        BadCase{"two_documents", "flow: {kinematic_viscosity: 0.01}\n---\ngrid: {generator: cavity}\n", 3, "",
+                "a single YAML document, got 2 documents"},
+        BadCase{"empty_document", "# nothing but a comment\n", 0, "", "got an empty document"},
+        BadCase{"unknown_top_level_key",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\n"
+                "boundaries: [{side: top, kind: wall}]\niteration: {max: 10}\n",
+                4, "iteration", "a top-level key (title, flow, grid"},
+        BadCase{
+            "unknown_nested_key",
+            "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8], cell_count: 4}\n", 2,
+            "grid.cell_count", "got an unknown key"},
+        BadCase{"unknown_key_in_block_segment",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\nboundaries:\n"
+                "  - side: top\n    kind: wall\n    speed: [1, 0]\n",
+                6, "boundaries[0].speed",
+                "a key of 'boundaries[0]' (side, kind, from, to, velocity, pressure)"},
+        BadCase{"repeated_key", "flow:\n  kinematic_viscosity: 0.01\n  kinematic_viscosity: 0.02\n", 3,
+                "flow.kinematic_viscosity", "first at line 2"},
+        BadCase{"string_viscosity", "flow: {kinematic_viscosity: small}\n", 1, "flow.kinematic_viscosity",
+                "expected a number > 0, got small"},
+        BadCase{"quoted_number_viscosity", "title: t\nflow: {kinematic_viscosity: \"0.01\"}\n", 2,
+                "flow.kinematic_viscosity", "got \"0.01\""},
+        BadCase{"negative_viscosity", "flow:\n  kinematic_viscosity: -0.01\n", 2, "flow.kinematic_viscosity",
+                "got -0.01"},
+        BadCase{"missing_viscosity",
+                "title: t\nflow:\n  reference_velocity: 2.0\ngrid: {generator: cavity, cells: [8, 8]}\n", 2,
+                "flow.kinematic_viscosity", "the key is missing"},
+        BadCase{"flow_not_a_mapping", "flow: 0.01\n", 1, "flow",
+                "expected a mapping with keys kinematic_viscosity"},
+        BadCase{"zero_cells",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [0, 96]}\n", 2,
+                "grid.cells", "expected 2 positive integers [cells_x, cells_y], got [0, 96]"},
+        BadCase{"non_integer_cells",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 2.5]}\n", 2,
+                "grid.cells", "got [8, 2.5]"},
+        BadCase{"three_cells",
+                "flow: {kinematic_viscosity: 0.01}\ngrid:\n  generator: cavity\n  cells: [8, 8, 8]\n", 4,
+                "grid.cells", "got [8, 8, 8]"},
+        BadCase{"unknown_generator",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: box, cells: [8, 8]}\n", 2,
+                "grid.generator", "one of channel, cavity, plate, skewed_box, got box"},
+        BadCase{
+            "plate_key_on_cavity",
+            "flow: {kinematic_viscosity: 0.01}\ngrid:\n  generator: cavity\n  cells: [8, 8]\n  run_up: 0.3\n",
+            5, "grid.run_up", "only with generator plate, got generator cavity"},
+        BadCase{
+            "run_up_without_cells",
+            "flow: {kinematic_viscosity: 0.01}\ngrid:\n  generator: plate\n  cells: [8, 8]\n  run_up: 0.3\n",
+            2, "grid.run_up_cells", "because grid.run_up > 0"},
+        BadCase{"skew_amplitude_too_large",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: skewed_box, cells: [8, 8], "
+                "skew_amplitude: 0.2}\n",
+                2, "grid.skew_amplitude", "in [0, 0.2)"},
+        BadCase{"missing_boundaries",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\n", 1,
+                "boundaries", "the key is missing"},
+        BadCase{
+            "empty_boundaries",
+            "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\nboundaries: []\n",
+            3, "boundaries", "a non-empty list of boundary segments, got []"},
+        BadCase{"unknown_boundary_kind",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\nboundaries:\n"
+                "  - {side: top, kind: wall}\n  - {side: left, kind: wal}\n",
+                5, "boundaries[1].kind", "one of wall, inflow, outflow, slip, free, got wal"},
+        BadCase{"unknown_side",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\nboundaries:\n"
+                "  - {side: up, kind: wall}\n",
+                4, "boundaries[0].side", "one of left, right, bottom, top, got up"},
+        BadCase{"from_not_below_to",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\nboundaries:\n"
+                "  - {side: bottom, from: 2.0, to: 1.0, kind: wall}\n",
+                4, "boundaries[0].to", "a number greater than from = 2, got 1.0"},
+        BadCase{"velocity_on_outflow",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\nboundaries:\n"
+                "  - {side: top, kind: wall}\n  - side: right\n    kind: outflow\n    velocity: [1, 0]\n",
+                7, "boundaries[1].velocity", "no velocity for kind 'outflow'"},
+        BadCase{"inflow_without_velocity",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\nboundaries:\n"
+                "  - {side: left, kind: inflow}\n",
+                4, "boundaries[0].velocity", "for kind 'inflow', got nothing"},
+        BadCase{"pressure_on_wall",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\nboundaries:\n"
+                "  - {side: top, kind: wall, pressure: 0.0}\n",
+                4, "boundaries[0].pressure", "no pressure for kind 'wall'"},
+        BadCase{"periodic_side_has_segment",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: channel, cells: [8, 8]}\nboundaries:\n"
+                "  - {side: bottom, kind: wall}\n  - {side: left, kind: inflow, velocity: [1, 0]}\n"
+                "periodic: {axis: x}\n",
+                5, "boundaries[1].side", "because periodic.axis is x (line 6)"},
+        BadCase{"periodic_axis_y",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: channel, cells: [8, 8]}\nperiodic: "
+                "{axis: y}\n",
+                3, "periodic.axis", "one of x, got y"},
+        BadCase{"turbulence_model_not_available",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\n"
+                "boundaries: [{side: top, kind: wall}]\nturbulence: {model: mixing_length}\n",
+                4, "turbulence.model", "one of laminar"},
+        BadCase{"unknown_coupling",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\n"
+                "boundaries: [{side: top, kind: wall}]\niterations:\n  max: 10\n  coupling: coupled\n",
+                6, "iterations.coupling", "one of simple, simplec, got coupled"},
+        BadCase{"relax_velocity_too_large",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\n"
+                "boundaries: [{side: top, kind: wall}]\niterations: {relax_velocity: 1.5}\n",
+                4, "iterations.relax_velocity", "a number in (0, 1), got 1.5"},
+        BadCase{"zero_max_iterations",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\n"
+                "boundaries: [{side: top, kind: wall}]\niterations: {max: 0}\n",
+                4, "iterations.max", "an integer >= 1, got 0"},
+        BadCase{"boolean_yes",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\n"
+                "boundaries: [{side: top, kind: wall}]\noutput: {wall_data: yes}\n",
+                4, "output.wall_data", "true or false, got yes"},
+        BadCase{"empty_title", "title: \"\"\n", 1, "title", "a non-empty string"}),
+    [](const ::testing::TestParamInfo<BadCase>& info) { return std::string(info.param.name); });
