@@ -81,6 +81,9 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
   check_petsc(KSPCreate(grid.comm(), ksp_mom_.out()));
   check_petsc(KSPSetOptionsPrefix(ksp_mom_.get(), "momentum_"));
   check_petsc(KSPSetInitialGuessNonzero(ksp_mom_.get(), PETSC_TRUE));
+  // Relative tolerance measured against the initial residual, not the right-hand side: the
+  // relaxation term makes |b| large, and an rtol on |b| would accept a stale initial guess.
+  check_petsc(KSPConvergedDefaultSetUIRNorm(ksp_mom_.get()));
   check_petsc(KSPSetFromOptions(ksp_mom_.get()));
   check_petsc(KSPCreate(grid.comm(), ksp_pc_.out()));
   check_petsc(KSPSetOptionsPrefix(ksp_pc_.get(), "pressure_"));

@@ -66,5 +66,6 @@ TEST(Poiseuille, UniformGridReproducesParabola) {
 }
 
 TEST(Poiseuille, StretchedGridWithinHalfPercent) {
+  // 16 cells per half-channel with geometric growth ratio 1.14 from a 3 mm wall cell.
   EXPECT_LT(max_relative_error(channel_case(32, 3.0e-3)), 5e-3);
 }
