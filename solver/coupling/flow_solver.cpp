@@ -394,3 +394,26 @@ void FlowSolver::correct() {
 }
 
 }  // namespace wallrans
+
+namespace wallrans {
+
+std::vector<WallSample> FlowSolver::wall_samples() const {
+  std::vector<WallSample> out;
+  const double dynamic = 0.5 * spec_.flow.reference_velocity * spec_.flow.reference_velocity;
+  for (const auto& f : bfaces_) {
+    if (segment(f).kind != BoundaryKind::wall) continue;
+    const Vec2 n = (1.0 / norm(f.area)) * f.area;
+    Vec2 t{-n.y, n.x};
+    if (t.x < 0.0 || (t.x == 0.0 && t.y < 0.0)) t = -1.0 * t;
+    // Velocity derivative into the fluid, second order (see normal_derivative).
+    const double du = -normal_derivative(vel_.x, grad_u_, u_b_.at(f), f);
+    const double dv = -normal_derivative(vel_.y, grad_v_, v_b_.at(f), f);
+    const double tau = spec_.flow.kinematic_viscosity * (du * t.x + dv * t.y);
+    const double s1 = dot(f.centre - grid_.centre(f.i, f.j), n);
+    out.push_back({f.side, f.index, f.centre, tau, tau / dynamic,
+                   (p_b_.at(f) - spec_.flow.reference_pressure) / dynamic, s1});
+  }
+  return out;
+}
+
+}  // namespace wallrans

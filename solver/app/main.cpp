@@ -1,0 +1,111 @@
+// The wallrans command-line program.
+#include <mpi.h>
+
+#include <cstdio>
+#include <cstdlib>
+#include <cstring>
+#include <exception>
+#include <string>
+#include <vector>
+
+#include "app/run_case.hpp"
+#include "core/error.hpp"
+#include "linear/petsc_session.hpp"
+
+namespace {
+
+constexpr const char* usage =
+    "usage: wallrans <command> [arguments]\n"
+    "  run CASE.yaml [--output-dir DIR] [--max-iterations N] [--quiet]\n"
+    "                  solve the case; writes fields (VTK), history.csv, wall.csv, summary.json\n"
+    "  check CASE.yaml validate the case and its grid without running; writes nothing\n"
+    "  version         print the version\n"
+    "PETSc options for the linear solvers may follow, e.g. -pressure_ksp_rtol 1e-3\n"
+    "(prefixes: -momentum_, -pressure_).\n"
+    "exit codes: 0 converged/valid, 2 bad input, 3 iteration cap reached, 4 diverged, 1 other failure\n";
+
+struct Arguments {
+  std::string command;
+  wallrans::RunOptions run;
+};
+
+int parse_int(const std::string& flag, const char* text) {
+  char* end = nullptr;
+  const long value = std::strtol(text, &end, 10);
+  if (*text == '\0' || *end != '\0' || value < 1 || value > 1000000000) {
+    throw wallrans::InputError("command line: " + flag + ": expected a positive integer, got '" + text + "'");
+  }
+  return static_cast<int>(value);
+}
+
+// Our own arguments start with "--" or are positional; single-dash ones belong to PETSc,
+// which has already read them (with their value) in PetscInitialize.
+Arguments parse(int argc, char** argv) {
+  Arguments a;
+  std::vector<std::string> positional;
+  for (int k = 1; k < argc; ++k) {
+    const std::string arg = argv[k];
+    if (arg == "--help" || arg == "-h") {
+      a.command = "help";
+      return a;
+    }
+    if (arg.rfind("--", 0) == 0) {
+      auto value = [&]() -> const char* {
+        if (k + 1 >= argc) throw wallrans::InputError("command line: " + arg + ": expected a value after it");
+        return argv[++k];
+      };
+      if (arg == "--output-dir") a.run.output_directory = value();
+      else if (arg == "--max-iterations") a.run.max_iterations = parse_int(arg, value());
+      else if (arg == "--quiet") a.run.quiet = true;
+      else throw wallrans::InputError("command line: unknown option '" + arg + "'; expected --output-dir, --max-iterations or --quiet");
+      continue;
+    }
+    if (arg.size() > 1 && arg[0] == '-') {
+      // A PETSc option; skip its value if the next word is not an option.
+      if (k + 1 < argc && argv[k + 1][0] != '-') ++k;
+      continue;
+    }
+    positional.push_back(arg);
+  }
+  if (positional.empty()) throw wallrans::InputError("command line: expected a command (run, check, version)");
+  a.command = positional[0];
+  if (a.command == "version") return a;
+  if (a.command != "run" && a.command != "check") {
+    throw wallrans::InputError("command line: unknown command '" + a.command + "'; expected run, check or version");
+  }
+  if (positional.size() != 2) {
+    throw wallrans::InputError("command line: " + a.command + ": expected exactly one case file, got " +
+                               std::to_string(positional.size() - 1));
+  }
+  a.run.case_file = positional[1];
+  return a;
+}
+
+}  // namespace
+
+int main(int argc, char** argv) {
+  wallrans::PetscSession session(&argc, &argv);
+  int rank = 0;
+  MPI_Comm_rank(MPI_COMM_WORLD, &rank);
+  int code = 0;
+  try {
+    const Arguments a = parse(argc, argv);
+    if (a.command == "help") {
+      if (rank == 0) std::fputs(usage, stdout);
+    } else if (a.command == "version") {
+      if (rank == 0) std::printf("wallrans %s\n", WALLRANS_VERSION);
+    } else if (a.command == "check") {
+      code = wallrans::check_case(MPI_COMM_WORLD, a.run.case_file);
+    } else {
+      code = wallrans::run_case(MPI_COMM_WORLD, a.run);
+    }
+  } catch (const wallrans::InputError& e) {
+    // Input is validated identically on every rank, so every rank lands here together.
+    if (rank == 0) std::fprintf(stderr, "wallrans: error: %s\n", e.what());
+    code = 2;
+  } catch (const std::exception& e) {
+    std::fprintf(stderr, "wallrans: rank %d: fatal: %s\n", rank, e.what());
+    MPI_Abort(MPI_COMM_WORLD, 1);
+  }
+  return code;
+}

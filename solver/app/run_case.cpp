@@ -1,0 +1,210 @@
+// Drives one case: load and validate everything first (so bad input writes nothing), then
+// iterate with a live residual line, and write history, fields, wall data and a summary.
+#include "app/run_case.hpp"
+
+#include <chrono>
+#include <cmath>
+#include <cstdio>
+#include <filesystem>
+#include <fstream>
+#include <memory>
+#include <sstream>
+
+#include "core/error.hpp"
+#include "coupling/flow_solver.hpp"
+#include "grid/boundary.hpp"
+#include "grid/grid_quality.hpp"
+#include "io/case_loader.hpp"
+#include "io/csv_writer.hpp"
+#include "io/gather.hpp"
+#include "io/vtk_writer.hpp"
+
+namespace wallrans {
+
+namespace {
+
+constexpr const char* caution =
+    "RANS results are model-dependent: validate them for your case and defer to applicable codes "
+    "and licensed engineering practice.";
+
+std::unique_ptr<TurbulenceModel> make_model(const CaseSpec& spec, const Grid& grid) {
+  if (spec.turbulence.model == "laminar") return std::make_unique<LaminarModel>(grid);
+  throw InputError(spec.source_file + ": key 'turbulence.model': expected laminar, got " + spec.turbulence.model);
+}
+
+struct Setup {
+  CaseSpec spec;
+  std::unique_ptr<Grid> grid;
+  std::unique_ptr<BoundaryMap> boundaries;
+};
+
+// Wraps messages from the grid generators and the boundary map with the case file name.
+Setup build(MPI_Comm comm, const std::string& case_file) {
+  Setup s;
+  s.spec = load_case_file(case_file);
+  try {
+    NodeCoordinates nodes = generate_nodes(s.spec.grid);
+    s.grid = std::make_unique<Grid>(comm, std::move(nodes), s.spec.periodic.axis == PeriodicAxis::x);
+    s.boundaries = std::make_unique<BoundaryMap>(s.spec, s.grid->nodes());
+  } catch (const InputError& e) {
+    const std::string text = e.what();
+    if (text.rfind(case_file, 0) == 0) throw;
+    throw InputError(case_file + ": " + text);
+  }
+  return s;
+}
+
+void write_text_atomically(const std::filesystem::path& path, const std::string& text) {
+  const auto temp = path.string() + ".tmp";
+  {
+    std::ofstream out(temp);
+    out << text;
+    if (!out.good()) throw Error("cannot write " + temp);
+  }
+  std::filesystem::rename(temp, path);
+}
+
+std::string json_number(double x) {
+  if (!std::isfinite(x)) return "null";
+  char buffer[40];
+  std::snprintf(buffer, sizeof buffer, "%.10g", x);
+  return buffer;
+}
+
+std::string json_string(const std::string& s) {
+  std::string out = "\"";
+  for (char c : s) {
+    if (c == '"' || c == '\\') out += '\\';
+    if (static_cast<unsigned char>(c) < 0x20) continue;
+    out += c;
+  }
+  return out + "\"";
+}
+
+}  // namespace
+
+int check_case(MPI_Comm comm, const std::string& case_file) {
+  Setup s = build(comm, case_file);
+  (void)make_model(s.spec, *s.grid);
+  const GridQuality q = measure_quality(*s.grid);
+  int rank = 0, size = 1;
+  MPI_Comm_rank(comm, &rank);
+  MPI_Comm_size(comm, &size);
+  if (rank == 0) {
+    std::printf("%s: case '%s' is valid\n", case_file.c_str(), s.spec.title.c_str());
+    std::printf("  grid: %d x %d cells, %d rank(s); min cell area %.3e m^2, max aspect ratio %.1f, "
+                "max non-orthogonality %.1f deg\n",
+                s.grid->cells_x(), s.grid->cells_y(), size, q.min_volume, q.max_aspect_ratio, q.max_non_orthogonality);
+    std::printf("  flow: nu = %.4g m^2/s, Re = U_ref L_ref / nu = %.4g; model %s; %zu boundary segment(s)\n",
+                s.spec.flow.kinematic_viscosity,
+                s.spec.flow.reference_velocity * s.spec.flow.reference_length / s.spec.flow.kinematic_viscosity,
+                s.spec.turbulence.model.c_str(), s.spec.boundaries.size());
+  }
+  return 0;
+}
+
+int run_case(MPI_Comm comm, const RunOptions& options) {
+  const auto start = std::chrono::steady_clock::now();
+  Setup s = build(comm, options.case_file);
+  CaseSpec& spec = s.spec;
+  if (options.output_directory) spec.output.directory = *options.output_directory;
+  if (options.max_iterations) spec.iterations.max = *options.max_iterations;
+  const Grid& grid = *s.grid;
+  auto model = make_model(spec, grid);
+  FlowSolver solver(spec, grid, *s.boundaries, *model);
+
+  int rank = 0, size = 1;
+  MPI_Comm_rank(comm, &rank);
+  MPI_Comm_size(comm, &size);
+  const std::filesystem::path dir = spec.output.directory;
+  int dir_ok = 1;
+  std::string dir_error;
+  if (rank == 0) {
+    std::error_code ec;
+    std::filesystem::create_directories(dir, ec);
+    if (ec) {
+      dir_ok = 0;
+      dir_error = ec.message();
+    }
+  }
+  MPI_Bcast(&dir_ok, 1, MPI_INT, 0, comm);
+  if (!dir_ok) throw InputError(spec.source_file + ": key 'output.directory': cannot create '" + dir.string() + "' (" + dir_error + ")");
+
+  std::unique_ptr<CsvWriter> history;
+  if (rank == 0) {
+    write_text_atomically(dir / "case.resolved.yaml", resolved_case_yaml(spec));
+    history = std::make_unique<CsvWriter>((dir / "history.csv").string(),
+                                          std::vector<std::string>{"iteration", "u_residual", "v_residual",
+                                                                   "continuity_residual", "u_residual_abs", "v_residual_abs",
+                                                                   "continuity_residual_abs", "momentum_linear_its",
+                                                                   "pressure_linear_its", "elapsed_s"});
+    std::printf("wallrans: case '%s', %d x %d cells on %d rank(s), model %s\n", spec.title.c_str(), grid.cells_x(),
+                grid.cells_y(), size, model->name().c_str());
+    std::printf("%8s %12s %12s %12s %8s\n", "iter", "res_u", "res_v", "res_mass", "time_s");
+  }
+  auto fields = [&](const std::string& basename) {
+    write_vtk_fields(grid, {{"pressure", &solver.pressure()}, {"eddy_viscosity", &solver.eddy_viscosity()}},
+                     {{"velocity", &solver.velocity()}}, dir.string(), basename);
+  };
+
+  IterationStatus status;
+  bool converged = false, diverged = false;
+  double elapsed = 0.0;
+  while (status.iteration < spec.iterations.max) {
+    status = solver.iterate();
+    elapsed = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
+    converged = solver.converged(status);
+    const auto& r = status.normalised;
+    diverged = !std::isfinite(r.u + r.v + r.continuity) || r.u > 1e8 || r.v > 1e8;
+    if (rank == 0) {
+      history->row({double(status.iteration), r.u, r.v, r.continuity, status.absolute.u, status.absolute.v,
+                    status.absolute.continuity, double(status.momentum_iterations),
+                    double(status.pressure_iterations), elapsed});
+      const int every = spec.iterations.report_every;
+      if (!options.quiet && every > 0 && (status.iteration % every == 0 || status.iteration == 1 || converged || diverged)) {
+        std::printf("%8d %12.4e %12.4e %12.4e %8.1f%s\n", status.iteration, r.u, r.v, r.continuity, elapsed,
+                    status.linear_solves_converged ? "" : "  (a linear solve broke down)");
+        std::fflush(stdout);
+      }
+    }
+    if (converged || diverged) break;
+    if (spec.output.fields_every > 0 && status.iteration % spec.output.fields_every == 0) {
+      fields("fields_" + std::to_string(status.iteration));
+    }
+  }
+  if (diverged) {
+    if (rank == 0) std::printf("wallrans: diverged at iteration %d; fields not written (history.csv kept)\n", status.iteration);
+    return 4;
+  }
+  fields("fields");
+  if (spec.output.wall_data) {
+    std::vector<std::vector<double>> rows;
+    for (const auto& w : solver.wall_samples())
+      rows.push_back({w.centre.x, w.centre.y, w.cf, w.cp, w.shear_stress, w.first_cell_distance});
+    const auto all = gather_rows(comm, rows, 6);
+    if (rank == 0) {
+      CsvWriter wall((dir / "wall.csv").string(), {"x", "y", "cf", "cp", "wall_shear_stress", "first_cell_distance"});
+      for (const auto& row : all) wall.row(row);
+    }
+  }
+  if (rank == 0) {
+    std::ostringstream json;
+    json << "{\n  \"title\": " << json_string(spec.title) << ",\n  \"case_file\": " << json_string(spec.source_file)
+         << ",\n  \"version\": " << json_string(WALLRANS_VERSION) << ",\n  \"ranks\": " << size
+         << ",\n  \"cells\": [" << grid.cells_x() << ", " << grid.cells_y() << "],\n  \"model\": "
+         << json_string(model->name()) << ",\n  \"iterations\": " << status.iteration
+         << ",\n  \"converged\": " << (converged ? "true" : "false") << ",\n  \"residuals\": {\"u\": "
+         << json_number(status.normalised.u) << ", \"v\": " << json_number(status.normalised.v)
+         << ", \"continuity\": " << json_number(status.normalised.continuity) << "},\n  \"residual_drop\": "
+         << json_number(spec.iterations.residual_drop) << ",\n  \"wall_time_s\": " << json_number(elapsed)
+         << ",\n  \"caution\": " << json_string(caution) << "\n}\n";
+    write_text_atomically(dir / "summary.json", json.str());
+    std::printf("wallrans: %s after %d iterations (%.1f s); results in %s\n",
+                converged ? "converged" : "NOT converged (iteration cap reached)", status.iteration, elapsed,
+                dir.string().c_str());
+    std::printf("note: %s\n", caution);
+  }
+  return converged ? 0 : 3;
+}
+
+}  // namespace wallrans

@@ -1,0 +1,27 @@
+// The `run` and `check` commands: case file -> grid -> solver -> outputs, with monitors.
+#pragma once
+
+#include <mpi.h>
+
+#include <optional>
+#include <string>
+
+namespace wallrans {
+
+struct RunOptions {
+  std::string case_file;
+  std::optional<std::string> output_directory;  ///< overrides output.directory
+  std::optional<int> max_iterations;            ///< overrides iterations.max
+  bool quiet = false;                           ///< no live residual lines
+};
+
+/// Collective. Runs the case to convergence or the iteration cap and writes the outputs.
+/// Returns the process exit code (0 converged, 3 not converged within the cap, 4 diverged).
+/// Throws InputError (identically on all ranks) for bad input before anything is written.
+int run_case(MPI_Comm comm, const RunOptions& options);
+
+/// Collective. Loads and validates the case, builds the grid and boundary map, prints a short
+/// description with grid-quality figures; writes nothing. Returns 0 or throws InputError.
+int check_case(MPI_Comm comm, const std::string& case_file);
+
+}  // namespace wallrans
