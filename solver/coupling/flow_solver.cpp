@@ -152,14 +152,32 @@ void FlowSolver::update_velocity_boundary_values() {
 }
 
 void FlowSolver::update_pressure_gradient_and_boundary_values() {
+  // Where the pressure is not imposed, the boundary value is extrapolated linearly along the face
+  // normal from the two nearest cells (cell values moved onto the normal with the previous
+  // gradient), which is second-order accurate; the value then enters the least-squares fit like
+  // an imposed one, so boundary cells get a two-sided gradient.
   for (const auto& f : bfaces_) {
-    if (is_pressure_boundary(f)) p_b_.at(f) = segment(f).pressure.value_or(spec_.flow.reference_pressure);
+    if (is_pressure_boundary(f)) {
+      p_b_.at(f) = segment(f).pressure.value_or(spec_.flow.reference_pressure);
+      continue;
+    }
+    const Vec2 n = (1.0 / norm(f.area)) * f.area;
+    auto along_normal = [&](int i, int j, double& s, double& value) {
+      const Vec2 r = grid_.centre(i, j) - f.centre;
+      s = -dot(r, n);
+      value = p_(i, j) - dot(grad_p_(i, j), r + s * n);
+    };
+    double s1 = 0, v1 = 0;
+    along_normal(f.i, f.j, s1, v1);
+    p_b_.at(f) = v1;
+    if (f.has_second) {
+      double s2 = 0, v2 = 0;
+      along_normal(f.i2, f.j2, s2, v2);
+      if (s2 > 1.05 * s1) p_b_.at(f) = v1 - s1 * (v2 - v1) / (s2 - s1);
+    }
   }
-  lsq_pressure_->compute(p_, p_b_, grad_p_);
+  lsq_all_->compute(p_, p_b_, grad_p_);
   grad_p_.exchange();
-  for (const auto& f : bfaces_) {
-    if (!is_pressure_boundary(f)) p_b_.at(f) = p_(f.i, f.j) + dot(grad_p_(f.i, f.j), f.centre - grid_.centre(f.i, f.j));
-  }
 }
 
 IterationStatus FlowSolver::iterate() {
@@ -277,7 +295,7 @@ void FlowSolver::predict_fluxes() {
     if (kind == BoundaryKind::slip) {
       flux = 0.0;
     } else if (kind == BoundaryKind::wall || kind == BoundaryKind::inflow) {
-      flux = u_b_.at(f) * f.area.x + v_b_.at(f) * f.area.y;
+      flux = boundary_flux_fn_ ? boundary_flux_fn_(f.centre, f.area) : u_b_.at(f) * f.area.x + v_b_.at(f) * f.area.y;
     } else {
       const Vec2 xp = grid_.centre(f.i, f.j);
       const Vec2 d = f.centre - xp;
@@ -322,8 +340,9 @@ void FlowSolver::assemble_and_solve_pressure_correction(IterationStatus& status)
       if (grid_.has_north(j)) add(i, j + 1, coefficient(i, j, i, j + 1, grid_.north_face(i, j)));
       if (grid_.has_south(j)) add(i, j - 1, coefficient(i, j - 1, i, j, grid_.north_face(i, j - 1)));
       net_out += flux_e_(i, j) + flux_n_(i, j);
-      net_out -= (i == 0 && !grid_.periodic_x()) ? flux_w_[j] : flux_e_(i - 1, j);
-      net_out -= (j == 0) ? flux_s_[i] : flux_n_(i, j - 1);
+      // West/south boundary fluxes are stored outward (out of the domain and of this cell).
+      net_out += (i == 0 && !grid_.periodic_x()) ? flux_w_[j] : -flux_e_(i - 1, j);
+      net_out += (j == 0) ? flux_s_[i] : -flux_n_(i, j - 1);
       b[j][i] = -net_out;
       imbalance += std::abs(net_out);
       check_petsc(MatSetValuesStencil(a, 1, &row, n, cols, vals, ADD_VALUES));

@@ -51,6 +51,10 @@ class FlowSolver {
   void set_momentum_source(std::function<Vec2(Vec2)> source) { source_ = std::move(source); }
   /// Replaces the velocity of wall and inflow segments by a function of position.
   void set_boundary_velocity(std::function<Vec2(Vec2)> velocity) { boundary_velocity_ = std::move(velocity); }
+  /// Replaces the volume flux through wall/inflow faces by f(centre, outward area) [m^2/s], e.g.
+  /// the exact integral of a manufactured velocity, so that the boundary fluxes of a closed
+  /// domain sum to zero exactly.
+  void set_boundary_flux(std::function<double(Vec2, Vec2)> flux) { boundary_flux_fn_ = std::move(flux); }
 
   /// Collective: one outer iteration (momentum predictor, pressure correction, corrections,
   /// turbulence model update).
@@ -93,6 +97,7 @@ class FlowSolver {
   TurbulenceModel& model_;
   std::vector<BoundaryFace> bfaces_;
   std::function<Vec2(Vec2)> source_, boundary_velocity_;
+  std::function<double(Vec2, Vec2)> boundary_flux_fn_;
   bool has_pressure_boundary_ = false;
   int iteration_ = 0;
 

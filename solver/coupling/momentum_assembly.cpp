@@ -167,12 +167,10 @@ void FlowSolver::assemble_momentum(ResidualNorms& residual) {
         switch (seg.kind) {
           case BoundaryKind::wall:
           case BoundaryKind::inflow: {
-            if (flux < 0.0) {
-              bu -= flux * ub;
-              bv -= flux * vb;
-            } else {
-              diag += flux;
-            }
+            // The face value is known, in or out: convect it (an upwind cell value here would
+            // be first order where flow leaves through a prescribed-velocity boundary).
+            bu -= flux * ub;
+            bv -= flux * vb;
             const double nu_w = seg.kind == BoundaryKind::wall ? nu : nu_eff_(i, j);
             const double c = nu_w * area / s1;
             diag += c;

@@ -2,6 +2,8 @@
 // convergence (or the iteration cap).
 #pragma once
 
+#include <cstdio>
+#include <cstdlib>
 #include <memory>
 
 #include "coupling/flow_solver.hpp"
@@ -30,6 +32,7 @@ CaseRun run_case(const CaseSpec& spec, Setup&& setup) {
   do {
     run.status = run.solver->iterate();
     run.converged = run.solver->converged(run.status);
+    if (std::getenv("DBG") && (run.status.iteration % 50 == 0 || run.status.iteration < 30)) std::printf("%d %g %g %g\n", run.status.iteration, run.status.normalised.u, run.status.normalised.v, run.status.normalised.continuity);
   } while (!run.converged && run.status.iteration < spec.iterations.max);
   return run;
 }
