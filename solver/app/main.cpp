@@ -20,7 +20,7 @@ constexpr const char* usage =
     "                  solve the case; writes fields (VTK), history.csv, wall.csv, summary.json\n"
     "  check CASE.yaml validate the case and its grid without running; writes nothing\n"
     "  version         print the version\n"
-    "PETSc options for the linear solvers may follow, e.g. -pressure_ksp_rtol 1e-3\n"
+    "PETSc options for the linear solvers go last, e.g. -pressure_ksp_rtol 1e-3\n"
     "(prefixes: -momentum_, -pressure_).\n"
     "exit codes: 0 converged/valid, 2 bad input, 3 iteration cap reached, 4 diverged, 1 other failure\n";
 
@@ -38,8 +38,9 @@ int parse_int(const std::string& flag, const char* text) {
   return static_cast<int>(value);
 }
 
-// Our own arguments start with "--" or are positional; single-dash ones belong to PETSc,
-// which has already read them (with their value) in PetscInitialize.
+// Our own arguments come first: the command, its case file and "--" options. The first
+// single-dash word starts the PETSc options, which PETSc has already read in PetscInitialize;
+// everything from there on is left to PETSc.
 Arguments parse(int argc, char** argv) {
   Arguments a;
   std::vector<std::string> positional;
@@ -61,9 +62,10 @@ Arguments parse(int argc, char** argv) {
       continue;
     }
     if (arg.size() > 1 && arg[0] == '-') {
-      // A PETSc option; skip its value if the next word is not an option.
-      if (k + 1 < argc && argv[k + 1][0] != '-') ++k;
-      continue;
+      if (positional.empty()) {
+        throw wallrans::InputError("command line: PETSc option '" + arg + "': expected it after the command and case file");
+      }
+      break;
     }
     positional.push_back(arg);
   }

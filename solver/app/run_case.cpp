@@ -47,9 +47,11 @@ Setup build(MPI_Comm comm, const std::string& case_file) {
     s.grid = std::make_unique<Grid>(comm, std::move(nodes), s.spec.periodic.axis == PeriodicAxis::x);
     s.boundaries = std::make_unique<BoundaryMap>(s.spec, s.grid->nodes());
   } catch (const InputError& e) {
+    // Messages of the boundary map already name the file and segment line; the generators and
+    // the grid metrics name the grid key, and get the grid section's line here.
     const std::string text = e.what();
     if (text.rfind(case_file, 0) == 0) throw;
-    throw InputError(case_file + ": " + text);
+    throw InputError(case_file + ":" + std::to_string(s.spec.grid.line) + ": " + text);
   }
   return s;
 }
@@ -128,7 +130,10 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
     }
   }
   MPI_Bcast(&dir_ok, 1, MPI_INT, 0, comm);
-  if (!dir_ok) throw InputError(spec.source_file + ": key 'output.directory': cannot create '" + dir.string() + "' (" + dir_error + ")");
+  if (!dir_ok) {
+    const std::string origin = options.output_directory ? "command line: --output-dir" : spec.source_file + ": key 'output.directory'";
+    throw InputError(origin + ": expected a directory that can be created, got '" + dir.string() + "' (" + dir_error + ")");
+  }
 
   std::unique_ptr<CsvWriter> history;
   if (rank == 0) {

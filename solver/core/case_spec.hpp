@@ -43,7 +43,8 @@ struct GridSpec {
   double run_up = 0.0;                         ///< plate: slip run-up length ahead of x = 0 [m]
   int run_up_cells = 0;                        ///< plate: cells in the run-up (included in cells_x)
   std::optional<double> leading_edge_spacing;  ///< plate: x spacing at the leading edge [m]
-  double skew_amplitude = 0.0;                 ///< skewed_box: node displacement / cell-free size
+  double skew_amplitude = 0.0;                 ///< skewed_box: node displacement / box size
+  int line = 0;                                ///< case-file line of the grid section (messages)
 };
 
 struct BoundarySegmentSpec {

@@ -38,47 +38,55 @@ const char* to_string(BoundaryKind kind) {
 BoundaryMap::BoundaryMap(const CaseSpec& spec, const NodeCoordinates& nodes) : segments_(spec.boundaries) {
   const int nx = nodes.cells_x, ny = nodes.cells_y;
   const bool periodic_x = spec.periodic.axis == PeriodicAxis::x;
+  auto key = [](size_t s) { return "key 'boundaries[" + std::to_string(s) + "]': "; };
   for (Side side : {Side::left, Side::right, Side::bottom, Side::top}) {
     const bool along_x = side == Side::bottom || side == Side::top;
     const int n = along_x ? nx : ny;
     auto& faces = faces_[static_cast<int>(side)];
     faces.assign(static_cast<size_t>(n), -1);
     const bool periodic_side = periodic_x && !along_x;
+    // Coordinate of each face centre along the side (x for bottom/top, y for left/right).
+    std::vector<double> mid(static_cast<size_t>(n));
+    for (int k = 0; k < n; ++k) {
+      const Vec2 a = along_x ? nodes.at(k, side == Side::bottom ? 0 : ny) : nodes.at(side == Side::left ? 0 : nx, k);
+      const Vec2 b = along_x ? nodes.at(k + 1, side == Side::bottom ? 0 : ny)
+                             : nodes.at(side == Side::left ? 0 : nx, k + 1);
+      mid[k] = along_x ? 0.5 * (a.x + b.x) : 0.5 * (a.y + b.y);
+    }
+    int first_line = 0;
     for (size_t s = 0; s < segments_.size(); ++s) {
       const auto& seg = segments_[s];
       if (seg.side != side) continue;
+      if (first_line == 0) first_line = seg.line;
       if (periodic_side) {
-        throw InputError(where(spec, seg.line) + ": boundaries: side '" + to_string(side) +
-                         "' is periodic (periodic.axis: x); expected no segment on it");
+        throw InputError(where(spec, seg.line) + ": " + key(s) + "expected no segment on side '" + to_string(side) +
+                         "' (periodic.axis: x makes it periodic), got kind '" + to_string(seg.kind) + "'");
       }
       int covered = 0;
       for (int k = 0; k < n; ++k) {
-        const Vec2 a = along_x ? nodes.at(k, side == Side::bottom ? 0 : ny)
-                               : nodes.at(side == Side::left ? 0 : nx, k);
-        const Vec2 b = along_x ? nodes.at(k + 1, side == Side::bottom ? 0 : ny)
-                               : nodes.at(side == Side::left ? 0 : nx, k + 1);
-        const double mid = along_x ? 0.5 * (a.x + b.x) : 0.5 * (a.y + b.y);
-        if (seg.from && mid < *seg.from) continue;
-        if (seg.to && mid > *seg.to) continue;
+        if (seg.from && mid[k] < *seg.from) continue;
+        if (seg.to && mid[k] > *seg.to) continue;
         if (faces[k] >= 0) {
-          throw InputError(where(spec, seg.line) + ": boundaries: segment on side '" + to_string(side) +
-                           "' overlaps the segment at line " + std::to_string(segments_[faces[k]].line) +
-                           " (face " + std::to_string(k) + "); expected each face in exactly one segment");
+          throw InputError(where(spec, seg.line) + ": " + key(s) + "expected faces not covered by another segment, got "
+                           "an overlap with boundaries[" + std::to_string(faces[k]) + "] (line " +
+                           std::to_string(segments_[faces[k]].line) + ") on side '" + to_string(side) + "' at " +
+                           (along_x ? "x = " : "y = ") + std::to_string(mid[k]));
         }
         faces[k] = static_cast<int>(s);
         ++covered;
       }
       if (covered == 0) {
-        throw InputError(where(spec, seg.line) + ": boundaries: segment on side '" + to_string(side) +
-                         "' covers no face of the grid; expected 'from'/'to' inside the side's extent");
+        throw InputError(where(spec, seg.line) + ": " + key(s) + "expected 'from'/'to' enclosing at least one face "
+                         "centre of side '" + to_string(side) + "' (" + std::to_string(mid.front()) + " to " +
+                         std::to_string(mid.back()) + "), got none");
       }
     }
     if (!periodic_side) {
       for (int k = 0; k < n; ++k) {
         if (faces[k] < 0) {
-          throw InputError(where(spec, 0) + ": boundaries: face " + std::to_string(k) + " of side '" +
-                           to_string(side) + "' has no boundary condition; expected segments covering "
-                           "the whole side");
+          throw InputError(where(spec, first_line) + ": key 'boundaries': expected segments covering side '" +
+                           to_string(side) + "' completely, got no segment for the face at " +
+                           (along_x ? "x = " : "y = ") + std::to_string(mid[k]));
         }
       }
     }

@@ -51,9 +51,9 @@ Grid::Grid(MPI_Comm comm, NodeCoordinates nodes, bool periodic_x)
       quad_metrics(nodes_.at(i, j), nodes_.at(i + 1, j), nodes_.at(i + 1, j + 1), nodes_.at(i, j + 1),
                    area, c);
       if (!(area > 0.0)) {
-        throw InputError("grid: cell (" + std::to_string(i) + ", " + std::to_string(j) +
-                         ") has non-positive volume " + std::to_string(area) +
-                         "; expected counter-clockwise cells with positive area");
+        throw InputError("key 'grid': expected counter-clockwise cells with positive volume, got non-positive "
+                         "volume " + std::to_string(area) + " at cell (" + std::to_string(i) + ", " +
+                         std::to_string(j) + ")");
       }
     }
   }

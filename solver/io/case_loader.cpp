@@ -164,6 +164,7 @@ GridSpec read_grid(const Value& value) {
   const Section section = value.section({"generator", "cells", "length", "height", "first_cell_height",
                                          "run_up", "run_up_cells", "leading_edge_spacing", "skew_amplitude"});
   GridSpec grid;
+  grid.line = value.line();
   grid.generator = read_enum(section.require("generator", one_of(all_generators)), all_generators);
   const std::string cells_expected = "2 positive integers [cells_x, cells_y]";
   const auto cells = section.require("cells", cells_expected).integers(2, cells_expected, [](int cells) {

@@ -85,14 +85,14 @@ std::vector<BadCase> bad_cases() {
     cases.push_back({"overlapping_segments",
                      text,
                      "from: 0.4",
-                     {"boundaries", "side 'bottom'", "line " + std::to_string(line_containing(text, "to: 0.6"))}});
+                     {"key 'boundaries[", "side 'bottom'", "line " + std::to_string(line_containing(text, "to: 0.6"))}});
   }
   cases.push_back({"uncovered_gap",
                    with(good_case, "  - {side: bottom, kind: wall}\n",
                         "  - {side: bottom, kind: wall, to: 0.4}\n"
                         "  - {side: bottom, kind: wall, from: 0.6}\n"),
-                   "",
-                   {"boundaries", "side 'bottom'"}});
+                   "to: 0.4",  // reported at the first segment of the side
+                   {"key 'boundaries'", "side 'bottom'"}});
   cases.push_back({"segment_on_periodic_side",
                    with(with(good_case, "generator: cavity", "generator: channel"), "boundaries:\n",
                         "periodic: {axis: x}\nboundaries:\n"),
@@ -102,12 +102,12 @@ std::vector<BadCase> bad_cases() {
                    with(good_case, "  - {side: bottom, kind: wall}\n",
                         "  - {side: bottom, kind: wall}\n  - {side: bottom, kind: slip, from: 2.0, to: 3.0}\n"),
                    "from: 2.0",
-                   {"boundaries", "covers no face"}});
+                   {"key 'boundaries[", "at least one face"}});
   // Two-sided clustering over 8 cells allows a first cell of at most 1/8 of the side.
   cases.push_back({"impossible_first_cell_height",
                    with(good_case, "  cells: [8, 8]\n", "  cells: [8, 8]\n  first_cell_height: 0.5\n"),
-                   "",
-                   {"grid.first_cell_height"}});
+                   "grid:",  // reported at the grid section
+                   {"key 'grid.first_cell_height'"}});
   cases.push_back({"missing_case_file", "", "", {}, true});
   return cases;
 }
