@@ -5,8 +5,11 @@
 
 #include <memory>
 #include <string>
+#include <utility>
 #include <vector>
 
+#include "grid/boundary.hpp"
+#include "grid/boundary_faces.hpp"
 #include "grid/grid.hpp"
 
 namespace wallrans {
@@ -14,11 +17,15 @@ namespace wallrans {
 /// Read-only view of the mean flow handed to a model.
 struct MeanFlowView {
   const Grid& grid;
+  const BoundaryMap& boundaries;
+  const std::vector<BoundaryFace>& boundary_faces;  ///< owned boundary faces (owned_boundary_faces order)
+  const std::vector<double>& boundary_flux;         ///< outward volume flux of each of those faces [m^2/s]
   const VectorField& velocity;
   const VectorField& grad_u;  ///< gradient of the x velocity component
   const VectorField& grad_v;  ///< gradient of the y velocity component
   const Field& flux_east;     ///< volumetric flux through the east face of each cell [m^2/s]
   const Field& flux_north;    ///< volumetric flux through the north face of each cell
+  const std::vector<double>& wall_shear;  ///< |tau_w| [m^2/s^2] of every wall face, global wall-face order
   double kinematic_viscosity;
 };
 
@@ -36,6 +43,8 @@ class TurbulenceModel {
   /// Eddy viscosity nu_t [m^2/s] in the ghosted range (ghosts current after update()).
   virtual const Field& eddy_viscosity() const = 0;
   virtual std::vector<ModelResidual> residuals() const { return {}; }
+  /// Cell fields worth writing (model variable, wall distance, y+), borrowed.
+  virtual std::vector<std::pair<std::string, const Field*>> output_fields() const { return {}; }
 };
 
 /// Laminar flow: nu_t = 0.

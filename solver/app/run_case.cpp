@@ -18,6 +18,7 @@
 #include "io/csv_writer.hpp"
 #include "io/gather.hpp"
 #include "io/vtk_writer.hpp"
+#include "models/model_factory.hpp"
 
 namespace wallrans {
 
@@ -26,11 +27,6 @@ namespace {
 constexpr const char* caution =
     "RANS results are model-dependent: validate them for your case and defer to applicable codes "
     "and licensed engineering practice.";
-
-std::unique_ptr<TurbulenceModel> make_model(const CaseSpec& spec, const Grid& grid) {
-  if (spec.turbulence.model == "laminar") return std::make_unique<LaminarModel>(grid);
-  throw InputError(spec.source_file + ": key 'turbulence.model': expected laminar, got " + spec.turbulence.model);
-}
 
 struct Setup {
   CaseSpec spec;
@@ -83,11 +79,57 @@ std::string json_string(const std::string& s) {
   return out + "\"";
 }
 
+// Profiles along the grid column containing each station x, measured from the bottom wall:
+// y (normal distance to the bottom wall face of the column), y+, U+ = u_t/u_tau, nu_t/nu.
+void write_profiles(const CaseSpec& spec, const FlowSolver& solver, const std::filesystem::path& dir, MPI_Comm comm) {
+  const Grid& grid = solver.grid();
+  int rank = 0;
+  MPI_Comm_rank(comm, &rank);
+  const double nu = spec.flow.kinematic_viscosity;
+  for (size_t station = 0; station < spec.output.profiles_at_x.size(); ++station) {
+    const double x = spec.output.profiles_at_x[station];
+    int column = -1;
+    for (int i = 0; i < grid.cells_x(); ++i)
+      if (grid.node(i, 0).x <= x && x < grid.node(i + 1, 0).x) column = i;
+    if (column < 0) {
+      if (rank == 0) std::printf("wallrans: warning: profile station x = %g is outside the grid; skipped\n", x);
+      continue;
+    }
+    // The bottom face of the column and its shear stress (owned by one rank, summed over all).
+    const Vec2 a = grid.node(column, 0), b = grid.node(column + 1, 0);
+    const Vec2 face_centre = 0.5 * (a + b);
+    const Vec2 normal = (1.0 / norm(b - a)) * Vec2{-(b - a).y, (b - a).x};  // into the domain
+    double tau = 0.0;
+    for (const auto& w : solver.wall_samples())
+      if (w.side == Side::bottom && w.index == column) tau = w.shear_stress;
+    double tau_all = 0.0;
+    MPI_Allreduce(&tau, &tau_all, 1, MPI_DOUBLE, MPI_SUM, comm);
+    const double u_tau = std::sqrt(std::abs(tau_all));
+    const Vec2 tangent{normal.y, -normal.x};
+    std::vector<std::vector<double>> rows;
+    if (column >= grid.x_begin() && column < grid.x_end()) {
+      for (int j = grid.y_begin(); j < grid.y_end(); ++j) {
+        const Vec2 c = grid.centre(column, j);
+        const double y = dot(c - face_centre, normal);
+        const double ut = dot(solver.velocity()(column, j), tangent);
+        const double nut = solver.eddy_viscosity()(column, j);
+        rows.push_back({c.x, c.y, y, u_tau > 0 ? y * u_tau / nu : 0.0, ut, u_tau > 0 ? ut / u_tau : 0.0, nut / nu});
+      }
+    }
+    const auto all = gather_rows(comm, rows, 7);
+    if (rank == 0) {
+      CsvWriter out((dir / ("profile_" + std::to_string(station) + ".csv")).string(),
+                    {"x", "y", "wall_distance", "y_plus", "u_tangential", "u_plus", "nut_over_nu"});
+      for (const auto& row : all) out.row(row);
+    }
+  }
+}
+
 }  // namespace
 
 int check_case(MPI_Comm comm, const std::string& case_file) {
   Setup s = build(comm, case_file);
-  (void)make_model(s.spec, *s.grid);
+  (void)make_turbulence_model(s.spec, *s.grid, *s.boundaries);
   const GridQuality q = measure_quality(*s.grid);
   int rank = 0, size = 1;
   MPI_Comm_rank(comm, &rank);
@@ -112,7 +154,7 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
   if (options.output_directory) spec.output.directory = *options.output_directory;
   if (options.max_iterations) spec.iterations.max = *options.max_iterations;
   const Grid& grid = *s.grid;
-  auto model = make_model(spec, grid);
+  auto model = make_turbulence_model(spec, grid, *s.boundaries);
   FlowSolver solver(spec, grid, *s.boundaries, *model);
 
   int rank = 0, size = 1;
@@ -138,18 +180,22 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
   std::unique_ptr<CsvWriter> history;
   if (rank == 0) {
     write_text_atomically(dir / "case.resolved.yaml", resolved_case_yaml(spec));
-    history = std::make_unique<CsvWriter>((dir / "history.csv").string(),
-                                          std::vector<std::string>{"iteration", "u_residual", "v_residual",
-                                                                   "continuity_residual", "u_residual_abs", "v_residual_abs",
-                                                                   "continuity_residual_abs", "momentum_linear_its",
-                                                                   "pressure_linear_its", "elapsed_s"});
+    std::vector<std::string> columns{"iteration", "u_residual", "v_residual", "continuity_residual"};
+    for (const auto& r : model->residuals()) columns.push_back(r.name + "_residual");
+    for (const char* c : {"u_residual_abs", "v_residual_abs", "continuity_residual_abs"}) columns.push_back(c);
+    for (const auto& r : model->residuals()) columns.push_back(r.name + "_residual_abs");
+    for (const char* c : {"momentum_linear_its", "pressure_linear_its", "elapsed_s"}) columns.push_back(c);
+    history = std::make_unique<CsvWriter>((dir / "history.csv").string(), columns);
     std::printf("wallrans: case '%s', %d x %d cells on %d rank(s), model %s\n", spec.title.c_str(), grid.cells_x(),
                 grid.cells_y(), size, model->name().c_str());
-    std::printf("%8s %12s %12s %12s %8s\n", "iter", "res_u", "res_v", "res_mass", "time_s");
+    std::printf("%8s %12s %12s %12s", "iter", "res_u", "res_v", "res_mass");
+    for (const auto& m : model->residuals()) std::printf(" %12s", ("res_" + m.name).c_str());
+    std::printf(" %8s\n", "time_s");
   }
   auto fields = [&](const std::string& basename) {
-    write_vtk_fields(grid, {{"pressure", &solver.pressure()}, {"eddy_viscosity", &solver.eddy_viscosity()}},
-                     {{"velocity", &solver.velocity()}}, dir.string(), basename);
+    std::vector<NamedScalar> scalars{{"pressure", &solver.pressure()}, {"eddy_viscosity", &solver.eddy_viscosity()}};
+    for (const auto& [name, field] : model->output_fields()) scalars.push_back({name, field});
+    write_vtk_fields(grid, scalars, {{"velocity", &solver.velocity()}}, dir.string(), basename);
   };
 
   IterationStatus status;
@@ -162,13 +208,17 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
     const auto& r = status.normalised;
     diverged = !std::isfinite(r.u + r.v + r.continuity) || r.u > 1e8 || r.v > 1e8;
     if (rank == 0) {
-      history->row({double(status.iteration), r.u, r.v, r.continuity, status.absolute.u, status.absolute.v,
-                    status.absolute.continuity, double(status.momentum_iterations),
-                    double(status.pressure_iterations), elapsed});
+      std::vector<double> row{double(status.iteration), r.u, r.v, r.continuity};
+      for (double m : status.model_normalised) row.push_back(m);
+      for (double a : {status.absolute.u, status.absolute.v, status.absolute.continuity}) row.push_back(a);
+      for (const auto& m : status.model_absolute) row.push_back(m.value);
+      for (double a : {double(status.momentum_iterations), double(status.pressure_iterations), elapsed}) row.push_back(a);
+      history->row(row);
       const int every = spec.iterations.report_every;
       if (!options.quiet && every > 0 && (status.iteration % every == 0 || status.iteration == 1 || converged || diverged)) {
-        std::printf("%8d %12.4e %12.4e %12.4e %8.1f%s\n", status.iteration, r.u, r.v, r.continuity, elapsed,
-                    status.linear_solves_converged ? "" : "  (a linear solve broke down)");
+        std::printf("%8d %12.4e %12.4e %12.4e", status.iteration, r.u, r.v, r.continuity);
+        for (double m : status.model_normalised) std::printf(" %12.4e", m);
+        std::printf(" %8.1f%s\n", elapsed, status.linear_solves_converged ? "" : "  (a linear solve broke down)");
         std::fflush(stdout);
       }
     }
@@ -184,14 +234,18 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
   fields("fields");
   if (spec.output.wall_data) {
     std::vector<std::vector<double>> rows;
-    for (const auto& w : solver.wall_samples())
-      rows.push_back({w.centre.x, w.centre.y, w.cf, w.cp, w.shear_stress, w.first_cell_distance});
-    const auto all = gather_rows(comm, rows, 6);
+    for (const auto& w : solver.wall_samples()) {
+      const double yplus = w.first_cell_distance * std::sqrt(std::abs(w.shear_stress)) / spec.flow.kinematic_viscosity;
+      rows.push_back({w.centre.x, w.centre.y, w.cf, w.cp, w.shear_stress, w.first_cell_distance, yplus});
+    }
+    const auto all = gather_rows(comm, rows, 7);
     if (rank == 0) {
-      CsvWriter wall((dir / "wall.csv").string(), {"x", "y", "cf", "cp", "wall_shear_stress", "first_cell_distance"});
+      CsvWriter wall((dir / "wall.csv").string(),
+                     {"x", "y", "cf", "cp", "wall_shear_stress", "first_cell_distance", "first_cell_y_plus"});
       for (const auto& row : all) wall.row(row);
     }
   }
+  write_profiles(spec, solver, dir, comm);
   if (rank == 0) {
     std::ostringstream json;
     json << "{\n  \"title\": " << json_string(spec.title) << ",\n  \"case_file\": " << json_string(spec.source_file)

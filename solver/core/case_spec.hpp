@@ -78,14 +78,25 @@ struct IterationSpec {
   std::string petsc_options;       ///< extra PETSc options, e.g. "-pressure_ksp_rtol 0.01"
 };
 
+/// Turbulence closure (equations in models/README.md).
 struct TurbulenceSpec {
+  /// laminar | mixing_length | k_equation | spalart_allmaras | baldwin_barth
   std::string model = "laminar";
+  /// spalart_allmaras: negative (default) | standard | noft2; k_equation: length_scale (default) | structure
+  std::string variant;
+  double freestream_viscosity_ratio = 3.0;  ///< SA, BB: transported variable / nu at inflow and free stream
+  double freestream_intensity = 0.01;       ///< k_equation: k = 1.5 (I U_ref)^2 at inflow and free stream
+  std::optional<double> outer_length;       ///< mixing_length: delta in l <= 0.09 delta [m] (required there)
+  double relax = 0.8;                       ///< under-relaxation of the model equation, in (0, 1]
+  ConvectionScheme convection = ConvectionScheme::bounded_linear_upwind;
+  int line = 0;                             ///< case-file line of the turbulence section (messages)
 };
 
 struct OutputSpec {
   std::string directory = "out";
   int fields_every = 0;     ///< VTK files every N iterations (0 = only at the end)
-  bool wall_data = true;    ///< write wall.csv (x, y, Cf, Cp) at the end
+  bool wall_data = true;    ///< write wall.csv (x, y, Cf, Cp, y+) at the end
+  std::vector<double> profiles_at_x;  ///< x stations [m] of profile_<k>.csv (y, y+, U+, nu_t/nu)
 };
 
 struct CaseSpec {

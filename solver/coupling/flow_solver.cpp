@@ -30,6 +30,25 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
   for (const auto& seg : boundaries_.segments()) {
     if (seg.kind == BoundaryKind::outflow || seg.kind == BoundaryKind::free) has_pressure_boundary_ = true;
   }
+  // Global numbering of the wall faces: sides left, right, bottom, top, increasing index.
+  std::vector<int> first_id(4, 0);
+  int n_walls = 0;
+  for (Side side : {Side::left, Side::right, Side::bottom, Side::top}) {
+    first_id[static_cast<int>(side)] = n_walls;
+    const int n = (side == Side::left || side == Side::right) ? grid.cells_y() : grid.cells_x();
+    if (grid.periodic_x() && (side == Side::left || side == Side::right)) continue;
+    for (int k = 0; k < n; ++k) n_walls += boundaries_.spec(side, k).kind == BoundaryKind::wall ? 1 : 0;
+  }
+  wall_shear_.assign(static_cast<size_t>(n_walls), 0.0);
+  for (const auto& f : bfaces_) {
+    int id = -1;
+    if (segment(f).kind == BoundaryKind::wall) {
+      id = first_id[static_cast<int>(f.side)];
+      for (int k = 0; k < f.index; ++k) id += boundaries_.spec(f.side, k).kind == BoundaryKind::wall ? 1 : 0;
+    }
+    wall_id_.push_back(id);
+  }
+  bflux_.assign(bfaces_.size(), 0.0);
   flux_w_.assign(grid.cells_y(), 0.0);
   flux_s_.assign(grid.cells_x(), 0.0);
   lsq_all_ = std::make_unique<LeastSquaresGradient>(grid, bfaces_, [](const BoundaryFace&) { return true; });
@@ -206,7 +225,9 @@ IterationStatus FlowSolver::iterate() {
   correct();
 
   update_velocity_boundary_values();
-  model_.update(MeanFlowView{grid_, vel_, grad_u_, grad_v_, flux_e_, flux_n_, spec_.flow.kinematic_viscosity});
+  for (size_t k = 0; k < bfaces_.size(); ++k) bflux_[k] = boundary_flux(bfaces_[k]);
+  refresh_wall_shear();
+  model_.update(view());
 
   // Momentum: normalised by the largest momentum residual (u or v) of the first five iterations
   // (common practice). Continuity: by the reference volume flux U_ref L_ref, since the initial
@@ -216,12 +237,42 @@ IterationStatus FlowSolver::iterate() {
   const double flux_ref = spec_.flow.reference_velocity * spec_.flow.reference_length;
   status.normalised = {status.absolute.u / momentum_ref, status.absolute.v / momentum_ref,
                        status.absolute.continuity / flux_ref};
+  status.model_absolute = model_.residuals();
+  model_reference_.resize(status.model_absolute.size(), 0.0);
+  for (size_t k = 0; k < status.model_absolute.size(); ++k) {
+    if (iteration_ <= 5) model_reference_[k] = std::max(model_reference_[k], status.model_absolute[k].value);
+    status.model_normalised.push_back(model_reference_[k] > 0.0 ? status.model_absolute[k].value / model_reference_[k]
+                                                                : status.model_absolute[k].value);
+  }
   return status;
+}
+
+MeanFlowView FlowSolver::view() const {
+  return MeanFlowView{grid_,   boundaries_, bfaces_, bflux_,       vel_, grad_u_, grad_v_,
+                      flux_e_, flux_n_,     wall_shear_, spec_.flow.kinematic_viscosity};
+}
+
+void FlowSolver::refresh_wall_shear() {
+  // Each rank fills its own wall faces; the sum over ranks assembles the whole list.
+  std::vector<double> local(wall_shear_.size(), 0.0);
+  const auto samples = wall_samples();
+  size_t s = 0;
+  for (size_t k = 0; k < bfaces_.size(); ++k) {
+    if (wall_id_[k] < 0) continue;
+    local[wall_id_[k]] = std::abs(samples[s++].shear_stress);
+  }
+  if (!local.empty()) {
+    check_mpi(MPI_Allreduce(local.data(), wall_shear_.data(), static_cast<int>(local.size()), MPI_DOUBLE, MPI_SUM,
+                            grid_.comm()));
+  }
 }
 
 bool FlowSolver::converged(const IterationStatus& s) const {
   const double tol = spec_.iterations.residual_drop;
-  return s.iteration > 5 && s.normalised.u < tol && s.normalised.v < tol && s.normalised.continuity < tol;
+  bool model_converged = true;
+  for (double r : s.model_normalised) model_converged = model_converged && r < tol;
+  return s.iteration > 5 && s.normalised.u < tol && s.normalised.v < tol && s.normalised.continuity < tol &&
+         model_converged;
 }
 
 void FlowSolver::solve_linear(KSP ksp, Vec rhs, Field& solution, int& iterations, bool& converged) {

@@ -24,6 +24,8 @@ struct IterationStatus {
   int iteration = 0;
   ResidualNorms absolute;    ///< L1 norms: momentum imbalance [m^3/s^2], mass imbalance [m^2/s]
   ResidualNorms normalised;  ///< momentum: / largest momentum residual of iterations 1-5; continuity: / (U_ref L_ref)
+  std::vector<ModelResidual> model_absolute;    ///< turbulence-model residuals (L1)
+  std::vector<double> model_normalised;         ///< / largest of iterations 1-5
   int momentum_iterations = 0;
   int pressure_iterations = 0;
   bool linear_solves_converged = true;
@@ -72,6 +74,9 @@ class FlowSolver {
   /// Local: flux through the boundary face [m^2/s], positive out of the domain.
   double boundary_flux(const BoundaryFace& face) const;
   const std::vector<BoundaryFace>& boundary_faces() const { return bfaces_; }
+  /// |tau_w| of every no-slip wall face of the domain (order: left, right, bottom, top sides,
+  /// increasing index), the same on every rank; refreshed each iteration.
+  const std::vector<double>& wall_shear() const { return wall_shear_; }
 
  private:
   struct FaceTerms;
@@ -98,7 +103,12 @@ class FlowSolver {
   std::vector<BoundaryFace> bfaces_;
   std::function<Vec2(Vec2)> source_, boundary_velocity_;
   std::function<double(Vec2, Vec2)> boundary_flux_fn_;
+  void refresh_wall_shear();
+  MeanFlowView view() const;
   bool has_pressure_boundary_ = false;
+  std::vector<double> bflux_;       // outward flux of each owned boundary face (bfaces_ order)
+  std::vector<int> wall_id_;        // global wall-face id of each owned boundary face, -1 if not a wall
+  std::vector<double> wall_shear_;  // |tau_w| per global wall face
   int iteration_ = 0;
 
   VectorField vel_, vel_old_, grad_u_, grad_v_, grad_p_, grad_pc_;
@@ -113,6 +123,7 @@ class FlowSolver {
   OwnedKsp ksp_mom_, ksp_pc_;
   OwnedNullSpace null_space_;
   ResidualNorms reference_;
+  std::vector<double> model_reference_;
 };
 
 }  // namespace wallrans

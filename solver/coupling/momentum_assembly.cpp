@@ -7,6 +7,7 @@
 #include <cmath>
 
 #include "coupling/flow_solver.hpp"
+#include "discretization/convection.hpp"
 #include "core/error.hpp"
 
 namespace wallrans {
@@ -17,53 +18,35 @@ struct FlowSolver::FaceTerms {
   double explicit_v;
 };
 
-namespace {
-
-// Face value of the convected quantity (deferred-correction target) for face flux `flux`.
-double face_value(ConvectionScheme scheme, double flux, double phi_l, double phi_r, Vec2 grad_l, Vec2 grad_r,
-                  Vec2 xl, Vec2 xr, Vec2 xf, double wl, Vec2 skew) {
-  const bool from_left = flux >= 0.0;
-  const double phi_u = from_left ? phi_l : phi_r;
-  switch (scheme) {
-    case ConvectionScheme::upwind: return phi_u;
-    case ConvectionScheme::central:
-      return wl * phi_l + (1.0 - wl) * phi_r + dot(wl * grad_l + (1.0 - wl) * grad_r, skew);
-    case ConvectionScheme::linear_upwind:
-    case ConvectionScheme::bounded_linear_upwind: {
-      // Linear reconstruction from the upwind cell (second order on any grid) ...
-      double value = from_left ? phi_l + dot(grad_l, xf - xl) : phi_r + dot(grad_r, xf - xr);
-      // ... clipped to the range of the two cells next to the face, so no new extrema appear.
-      if (scheme == ConvectionScheme::bounded_linear_upwind)
-        value = std::clamp(value, std::min(phi_l, phi_r), std::max(phi_l, phi_r));
-      return value;
-    }
-  }
-  return phi_u;
-}
-
-}  // namespace
-
 FlowSolver::FaceTerms FlowSolver::interior_face_terms(int il, int jl, int ir, int jr, const FaceGeometry& face,
                                                       double flux) const {
   const Vec2 xl = grid_.centre(il, jl), xr = grid_.centre(ir, jr);
-  const Vec2 d = xr - xl;
-  const double wl = dot(xr - face.centre, d) / dot(d, d);
-  const Vec2 skew = face.centre - (xl + (1.0 - wl) * d);
-  const double k = dot(face.area, face.area) / dot(face.area, d);
+  const InteriorFaceGeometry g = interior_face_geometry(xl, xr, face.area, face.centre);
+  const double wl = g.wl;
   const double nu_f = wl * nu_eff_(il, jl) + (1.0 - wl) * nu_eff_(ir, jr);
+  const ConvectionScheme scheme = spec_.iterations.convection;
   // Over-relaxed split of the diffusive flux: implicit along L-R, the rest explicit with the
   // interpolated cell gradient (Jasak 1996, sec. 3.3.1.3).
-  const Vec2 cross_part = face.area - k * d;
-  const ConvectionScheme scheme = spec_.iterations.convection;
   auto terms = [&](const Field& phi, const VectorField& grad) {
     const Vec2 gl = grad(il, jl), gr = grad(ir, jr);
-    const double phi_f = face_value(scheme, flux, phi(il, jl), phi(ir, jr), gl, gr, xl, xr, face.centre, wl, skew);
+    const double phi_f = face_value(scheme, flux, phi(il, jl), phi(ir, jr), gl, gr, xl, xr, face.centre, wl, g.skew);
     const double phi_upwind = flux >= 0.0 ? phi(il, jl) : phi(ir, jr);
     const double convection_correction = flux * (phi_f - phi_upwind);
-    const double cross_diffusion = nu_f * dot(cross_part, wl * gl + (1.0 - wl) * gr);
+    const double cross_diffusion = nu_f * dot(g.cross, wl * gl + (1.0 - wl) * gr);
     return cross_diffusion - convection_correction;
   };
-  return {nu_f * k, terms(vel_.x, grad_u_), terms(vel_.y, grad_v_)};
+  FaceTerms t{nu_f * g.k, terms(vel_.x, grad_u_), terms(vel_.y, grad_v_)};
+  // Eddy-viscosity part of the transposed stress, nu_t (grad u)^T . S (explicit; it vanishes for
+  // constant viscosity by continuity).
+  const double nu = spec_.flow.kinematic_viscosity;
+  const double nut_f = wl * (nu_eff_(il, jl) - nu) + (1.0 - wl) * (nu_eff_(ir, jr) - nu);
+  if (nut_f != 0.0) {
+    const Vec2 gu = wl * grad_u_(il, jl) + (1.0 - wl) * grad_u_(ir, jr);
+    const Vec2 gv = wl * grad_v_(il, jl) + (1.0 - wl) * grad_v_(ir, jr);
+    t.explicit_u += nut_f * (gu.x * face.area.x + gv.x * face.area.y);
+    t.explicit_v += nut_f * (gu.y * face.area.x + gv.y * face.area.y);
+  }
+  return t;
 }
 
 double FlowSolver::normal_derivative(const Field& phi, const VectorField& grad, double phi_b,

@@ -35,7 +35,10 @@ constexpr std::array all_schemes{ConvectionScheme::upwind, ConvectionScheme::lin
 // "none" is the absence of the periodic section, so it is not a value a case file can name.
 constexpr std::array periodic_axes{PeriodicAxis::x};
 // Models are added here as they are implemented.
-constexpr std::array<const char*, 1> turbulence_models{"laminar"};
+constexpr std::array<const char*, 5> turbulence_models{"laminar", "mixing_length", "k_equation", "spalart_allmaras",
+                                                       "baldwin_barth"};
+constexpr std::array<const char*, 3> sa_variants{"negative", "standard", "noft2"};
+constexpr std::array<const char*, 2> k_variants{"length_scale", "structure"};
 
 const std::string any_number = "a number";
 const std::string positive_number = "a number > 0";
@@ -257,15 +260,45 @@ std::vector<BoundarySegmentSpec> read_boundaries(const Value& value, const FlowS
 }
 
 TurbulenceSpec read_turbulence(const Value& value) {
-  const Section section = value.section({"model"});
+  const Section section = value.section({"model", "variant", "freestream_viscosity_ratio", "freestream_intensity",
+                                         "outer_length", "relax", "convection"});
   TurbulenceSpec turbulence;
+  turbulence.line = value.line();
   if (const auto model = section.find("model")) {
-    const std::string expected = one_of(turbulence_models) + " (other models are not available yet)";
+    const std::string expected = one_of(turbulence_models);
     turbulence.model = model->text(expected);
     bool known = false;
     for (const char* name : turbulence_models) known = known || turbulence.model == name;
     if (!known) model->fail(expected);
   }
+  const bool is_sa = turbulence.model == "spalart_allmaras", is_k = turbulence.model == "k_equation";
+  if (const auto variant = section.find("variant")) {
+    if (is_sa) {
+      turbulence.variant = variant->text(one_of(sa_variants));
+      bool known = false;
+      for (const char* name : sa_variants) known = known || turbulence.variant == name;
+      if (!known) variant->fail(one_of(sa_variants));
+    } else if (is_k) {
+      turbulence.variant = variant->text(one_of(k_variants));
+      bool known = false;
+      for (const char* name : k_variants) known = known || turbulence.variant == name;
+      if (!known) variant->fail(one_of(k_variants));
+    } else {
+      variant->fail("no variant for model " + turbulence.model + " (variants exist for spalart_allmaras and k_equation)");
+    }
+  }
+  if (turbulence.variant.empty()) turbulence.variant = is_sa ? "negative" : is_k ? "length_scale" : "";
+  turbulence.freestream_viscosity_ratio = number_or(section, "freestream_viscosity_ratio",
+                                                    turbulence.freestream_viscosity_ratio, positive_number, is_positive);
+  turbulence.freestream_intensity = number_or(section, "freestream_intensity", turbulence.freestream_intensity,
+                                              "a number in [0, 1]", [](double x) { return x >= 0.0 && x <= 1.0; });
+  if (const auto outer = section.find("outer_length")) turbulence.outer_length = outer->number(positive_number, is_positive);
+  if (turbulence.model == "mixing_length" && !turbulence.outer_length) {
+    section.missing("outer_length", "a number > 0 (the mixing_length model caps l at 0.09 outer_length)");
+  }
+  turbulence.relax = number_or(section, "relax", turbulence.relax, "a number in (0, 1]",
+                               [](double x) { return x > 0.0 && x <= 1.0; });
+  if (const auto scheme = section.find("convection")) turbulence.convection = read_enum(*scheme, all_schemes);
   return turbulence;
 }
 
@@ -293,12 +326,15 @@ IterationSpec read_iterations(const Value& value) {
 }
 
 OutputSpec read_output(const Value& value) {
-  const Section section = value.section({"directory", "fields_every", "wall_data"});
+  const Section section = value.section({"directory", "fields_every", "wall_data", "profiles_at_x"});
   OutputSpec output;
   output.directory = text_or(section, "directory", output.directory, false);
   output.fields_every = integer_or(section, "fields_every", output.fields_every, "an integer >= 0",
                                    [](int n) { return n >= 0; });
   if (const auto wall_data = section.find("wall_data")) output.wall_data = wall_data->boolean();
+  if (const auto stations = section.find("profiles_at_x")) {
+    for (const Value& x : stations->items("a list of x stations [m]")) output.profiles_at_x.push_back(x.number(any_number));
+  }
   return output;
 }
 
@@ -418,6 +454,12 @@ std::string resolved_case_yaml(const CaseSpec& spec) {
 
   out << YAML::Key << "turbulence" << YAML::Value << YAML::BeginMap;
   put_text(out, "model", spec.turbulence.model);
+  if (!spec.turbulence.variant.empty()) put_text(out, "variant", spec.turbulence.variant);
+  put(out, "freestream_viscosity_ratio", spec.turbulence.freestream_viscosity_ratio);
+  put(out, "freestream_intensity", spec.turbulence.freestream_intensity);
+  if (spec.turbulence.outer_length) put(out, "outer_length", *spec.turbulence.outer_length);
+  put(out, "relax", spec.turbulence.relax);
+  put(out, "convection", name_of(spec.turbulence.convection));
   out << YAML::EndMap;
 
   const IterationSpec& iterations = spec.iterations;
@@ -436,6 +478,11 @@ std::string resolved_case_yaml(const CaseSpec& spec) {
   put_text(out, "directory", spec.output.directory);
   put(out, "fields_every", spec.output.fields_every);
   put(out, "wall_data", spec.output.wall_data ? "true" : "false");
+  if (!spec.output.profiles_at_x.empty()) {
+    out << YAML::Key << "profiles_at_x" << YAML::Value << YAML::Flow << YAML::BeginSeq;
+    for (double x : spec.output.profiles_at_x) out << number_text(x);
+    out << YAML::EndSeq;
+  }
   out << YAML::EndMap;
   out << YAML::EndMap;
 

@@ -222,7 +222,8 @@ TEST_F(CavityRun, HistoryRecordsEveryIterationUntilConvergence) {
 
 TEST_F(CavityRun, WallDataCoversAllFourWalls) {
   const wallrans::CsvTable wall = wallrans::read_csv((output() / "wall.csv").string());
-  EXPECT_EQ(wall.columns, (std::vector<std::string>{"x", "y", "cf", "cp", "wall_shear_stress", "first_cell_distance"}));
+  EXPECT_EQ(wall.columns, (std::vector<std::string>{"x", "y", "cf", "cp", "wall_shear_stress", "first_cell_distance",
+                                                     "first_cell_y_plus"}));
   ASSERT_EQ(wall.rows.size(), 4u * n_cells);
   const int x = column_of(wall, "x"), y = column_of(wall, "y"), cf = column_of(wall, "cf");
   const int distance = column_of(wall, "first_cell_distance");

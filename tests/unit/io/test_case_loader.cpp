@@ -429,10 +429,18 @@ INSTANTIATE_TEST_SUITE_P(
                 "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: channel, cells: [8, 8]}\nperiodic: "
                 "{axis: y}\n",
                 3, "periodic.axis", "one of x, got y"},
-        BadCase{"turbulence_model_not_available",
+        BadCase{"unknown_turbulence_model",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\n"
+                "boundaries: [{side: top, kind: wall}]\nturbulence: {model: two_layer_magic}\n",
+                4, "turbulence.model", "one of laminar, mixing_length"},
+        BadCase{"mixing_length_without_outer_length",
                 "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\n"
                 "boundaries: [{side: top, kind: wall}]\nturbulence: {model: mixing_length}\n",
-                4, "turbulence.model", "one of laminar"},
+                4, "turbulence.outer_length", "0.09 outer_length"},
+        BadCase{"unknown_sa_variant",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\n"
+                "boundaries: [{side: top, kind: wall}]\nturbulence: {model: spalart_allmaras, variant: lowre}\n",
+                4, "turbulence.variant", "one of negative, standard, noft2"},
         BadCase{"unknown_coupling",
                 "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\n"
                 "boundaries: [{side: top, kind: wall}]\niterations:\n  max: 10\n  coupling: coupled\n",

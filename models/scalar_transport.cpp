@@ -1,0 +1,181 @@
+// Assembly and solution of a turbulence-model transport equation.
+#include "models/scalar_transport.hpp"
+
+#include <petscdmda.h>
+
+#include <array>
+#include <cmath>
+
+#include "core/error.hpp"
+#include "discretization/convection.hpp"
+
+namespace wallrans {
+
+namespace {
+
+bool is_dirichlet(BoundaryKind kind, double outward_flux) {
+  return kind == BoundaryKind::wall || kind == BoundaryKind::inflow ||
+         (kind == BoundaryKind::free && outward_flux < 0.0);
+}
+
+}  // namespace
+
+ScalarTransport::ScalarTransport(const Grid& grid, const BoundaryMap& boundaries, ConvectionScheme scheme,
+                                 const std::string& prefix)
+    : grid_(grid), boundaries_(boundaries), scheme_(scheme), faces_(owned_boundary_faces(grid)), phi_b_(grid),
+      grad_(grid) {
+  lsq_ = std::make_unique<LeastSquaresGradient>(grid, faces_, [](const BoundaryFace&) { return true; });
+  check_petsc(DMCreateMatrix(grid.dm(), matrix_.out()));
+  check_petsc(DMCreateGlobalVector(grid.dm(), rhs_.out()));
+  check_petsc(DMCreateGlobalVector(grid.dm(), solution_.out()));
+  check_petsc(KSPCreate(grid.comm(), ksp_.out()));
+  check_petsc(KSPSetOptionsPrefix(ksp_.get(), prefix.c_str()));
+  check_petsc(KSPSetType(ksp_.get(), KSPBCGS));
+  check_petsc(KSPSetTolerances(ksp_.get(), 1e-3, PETSC_DEFAULT, PETSC_DEFAULT, 200));
+  check_petsc(KSPSetInitialGuessNonzero(ksp_.get(), PETSC_TRUE));
+  check_petsc(KSPConvergedDefaultSetUIRNorm(ksp_.get()));
+  check_petsc(KSPSetFromOptions(ksp_.get()));
+}
+
+void ScalarTransport::boundary_values(const MeanFlowView& flow, const Field& phi, double wall_value,
+                                      double freestream) {
+  for (size_t k = 0; k < flow.boundary_faces.size(); ++k) {
+    const BoundaryFace& f = flow.boundary_faces[k];
+    const BoundaryKind kind = boundaries_.spec(f.side, f.index).kind;
+    double value = phi(f.i, f.j);
+    if (kind == BoundaryKind::wall) value = wall_value;
+    else if (is_dirichlet(kind, flow.boundary_flux[k])) value = freestream;
+    phi_b_.at(f) = value;
+  }
+}
+
+void ScalarTransport::gradient_of(const Field& phi, double wall_value, const MeanFlowView& flow, VectorField& out) {
+  boundary_values(flow, phi, wall_value, 0.0);
+  lsq_->compute(phi, phi_b_, out);
+  out.exchange();
+}
+
+double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
+  Field& phi = *eq.phi;
+  const Field& gamma = *eq.gamma;
+  boundary_values(flow, phi, eq.wall_value, eq.freestream_value);
+  lsq_->compute(phi, phi_b_, grad_);
+  grad_.exchange();
+
+  std::vector<std::array<int, 4>> cell_faces(grid_.n_owned(), {-1, -1, -1, -1});
+  for (size_t k = 0; k < flow.boundary_faces.size(); ++k) {
+    for (int& slot : cell_faces[grid_.owned(flow.boundary_faces[k].i, flow.boundary_faces[k].j)]) {
+      if (slot < 0) {
+        slot = static_cast<int>(k);
+        break;
+      }
+    }
+  }
+
+  Mat a = matrix_.get();
+  check_petsc(MatZeroEntries(a));
+  PetscScalar** b = nullptr;
+  check_petsc(DMDAVecGetArray(grid_.dm(), rhs_.get(), &b));
+  double residual = 0.0;
+  // Convection and diffusion through one interior face; returns the implicit coefficients and
+  // the explicit part of the balance of the left cell.
+  struct Face {
+    double a_ll, a_lr, a_rr, a_rl, explicit_left;
+  };
+  auto face_terms = [&](int il, int jl, int ir, int jr, const FaceGeometry& geom, double flux) {
+    const Vec2 xl = grid_.centre(il, jl), xr = grid_.centre(ir, jr);
+    const InteriorFaceGeometry g = interior_face_geometry(xl, xr, geom.area, geom.centre);
+    const double gamma_f = g.wl * gamma(il, jl) + (1.0 - g.wl) * gamma(ir, jr);
+    const double diffusion = gamma_f * g.k;
+    const Vec2 gl = grad_(il, jl), gr = grad_(ir, jr);
+    const double phi_f = face_value(scheme_, flux, phi(il, jl), phi(ir, jr), gl, gr, xl, xr, geom.centre, g.wl, g.skew);
+    const double phi_upwind = flux >= 0.0 ? phi(il, jl) : phi(ir, jr);
+    const double explicit_left =
+        gamma_f * dot(g.cross, g.wl * gl + (1.0 - g.wl) * gr) - flux * (phi_f - phi_upwind);
+    return Face{diffusion + std::max(flux, 0.0), diffusion + std::max(-flux, 0.0), diffusion + std::max(-flux, 0.0),
+                diffusion + std::max(flux, 0.0), explicit_left};
+  };
+  for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
+    for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
+      const double volume = grid_.volume(i, j);
+      MatStencil row{0, j, i, 0};
+      MatStencil cols[5];
+      double vals[5];
+      int n = 1;
+      cols[0] = row;
+      double diag = -eq.source_p->operator()(i, j) * volume;
+      double rhs = eq.source_u->operator()(i, j) * volume;
+      double off = 0.0;
+      auto neighbour = [&](int in, int jn, double coef) {
+        cols[n] = MatStencil{0, jn, in, 0};
+        vals[n++] = -coef;
+        off += coef * phi(in, jn);
+      };
+      if (grid_.has_east(i)) {
+        const Face t = face_terms(i, j, i + 1, j, grid_.east_face(i, j), flow.flux_east(i, j));
+        diag += t.a_ll;
+        neighbour(i + 1, j, t.a_lr);
+        rhs += t.explicit_left;
+      }
+      if (grid_.has_west(i)) {
+        const Face t = face_terms(i - 1, j, i, j, grid_.east_face(i - 1, j), flow.flux_east(i - 1, j));
+        diag += t.a_rr;
+        neighbour(i - 1, j, t.a_rl);
+        rhs -= t.explicit_left;
+      }
+      if (grid_.has_north(j)) {
+        const Face t = face_terms(i, j, i, j + 1, grid_.north_face(i, j), flow.flux_north(i, j));
+        diag += t.a_ll;
+        neighbour(i, j + 1, t.a_lr);
+        rhs += t.explicit_left;
+      }
+      if (grid_.has_south(j)) {
+        const Face t = face_terms(i, j - 1, i, j, grid_.north_face(i, j - 1), flow.flux_north(i, j - 1));
+        diag += t.a_rr;
+        neighbour(i, j - 1, t.a_rl);
+        rhs -= t.explicit_left;
+      }
+      for (int slot : cell_faces[grid_.owned(i, j)]) {
+        if (slot < 0) continue;
+        const BoundaryFace& f = flow.boundary_faces[slot];
+        const double flux = flow.boundary_flux[slot];
+        const BoundaryKind kind = boundaries_.spec(f.side, f.index).kind;
+        const double value = phi_b_.at(f);
+        if (flux >= 0.0) diag += flux;  // leaving: upwind is this cell
+        else rhs -= flux * value;       // entering: carries the boundary value
+        if (is_dirichlet(kind, flux)) {
+          const double area = norm(f.area);
+          const double s1 = dot(f.centre - grid_.centre(i, j), (1.0 / area) * f.area);
+          const double c = (kind == BoundaryKind::wall && eq.wall_gamma >= 0.0 ? eq.wall_gamma : gamma(i, j)) * area / s1;
+          diag += c;
+          rhs += c * value;
+        }
+      }
+      residual += std::abs(rhs + off - diag * phi(i, j));
+      // Under-relaxation (Patankar 1980, eq. 4.38).
+      const double diag_relaxed = diag / eq.relax;
+      vals[0] = diag_relaxed;
+      b[j][i] = rhs + (diag_relaxed - diag) * phi(i, j);
+      check_petsc(MatSetValuesStencil(a, 1, &row, n, cols, vals, INSERT_VALUES));
+    }
+  }
+  check_petsc(DMDAVecRestoreArray(grid_.dm(), rhs_.get(), &b));
+  check_petsc(MatAssemblyBegin(a, MAT_FINAL_ASSEMBLY));
+  check_petsc(MatAssemblyEnd(a, MAT_FINAL_ASSEMBLY));
+
+  PetscScalar** x = nullptr;
+  check_petsc(DMDAVecGetArray(grid_.dm(), solution_.get(), &x));
+  for (int j = grid_.y_begin(); j < grid_.y_end(); ++j)
+    for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) x[j][i] = phi(i, j);
+  check_petsc(DMDAVecRestoreArray(grid_.dm(), solution_.get(), &x));
+  check_petsc(KSPSetOperators(ksp_.get(), a, a));
+  check_petsc(KSPSolve(ksp_.get(), rhs_.get(), solution_.get()));
+  check_petsc(DMDAVecGetArray(grid_.dm(), solution_.get(), &x));
+  for (int j = grid_.y_begin(); j < grid_.y_end(); ++j)
+    for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) phi(i, j) = x[j][i];
+  check_petsc(DMDAVecRestoreArray(grid_.dm(), solution_.get(), &x));
+  phi.exchange();
+  return grid_.global_sum(residual);
+}
+
+}  // namespace wallrans

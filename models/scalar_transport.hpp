@@ -1,0 +1,56 @@
+// Implicit finite-volume solver for one scalar transport equation of a turbulence model:
+//   div(F phi) - div(Gamma grad phi) = S_u + S_p phi   (S_p <= 0),
+// with the same convection schemes and non-orthogonal diffusion split as the momentum equations.
+#pragma once
+
+#include <functional>
+#include <memory>
+#include <string>
+
+#include "discretization/least_squares_gradient.hpp"
+#include "linear/petsc_handles.hpp"
+#include "models/turbulence_model.hpp"
+
+namespace wallrans {
+
+struct ScalarEquation {
+  Field* phi;              ///< unknown (ghosted); updated in place, ghosts refreshed
+  const Field* gamma;      ///< diffusion coefficient [m^2/s] (ghosts current)
+  const Field* source_u;   ///< explicit source per unit volume (owned cells)
+  const Field* source_p;   ///< implicit source coefficient per unit volume, <= 0 (owned cells)
+  double wall_value = 0.0;       ///< value at no-slip walls
+  double wall_gamma = -1.0;      ///< diffusion coefficient at walls (< 0: use the cell value)
+  double freestream_value = 0.0; ///< value carried in through inflow and free boundaries
+  double relax = 0.8;
+};
+
+class ScalarTransport {
+ public:
+  /// Collective. `prefix` is the PETSc options prefix of the linear solver (e.g. "turbulence_").
+  ScalarTransport(const Grid& grid, const BoundaryMap& boundaries, ConvectionScheme scheme, const std::string& prefix);
+
+  /// Collective: one implicit relaxed step. Returns the L1 norm of the unrelaxed residual before
+  /// the step (in the equation's units times volume).
+  double solve(const MeanFlowView& flow, ScalarEquation& equation);
+
+  /// Least-squares gradient of the last solved phi (owned and ghost cells, before the step).
+  const VectorField& gradient() const { return grad_; }
+  /// Local: gradient of any field with the given wall value (zero gradient elsewhere); owned
+  /// cells, ghosts refreshed. Used for model terms such as grad nu_t.
+  void gradient_of(const Field& phi, double wall_value, const MeanFlowView& flow, VectorField& out);
+
+ private:
+  void boundary_values(const MeanFlowView& flow, const Field& phi, double wall_value, double freestream);
+  const Grid& grid_;
+  const BoundaryMap& boundaries_;
+  ConvectionScheme scheme_;
+  std::vector<BoundaryFace> faces_;
+  std::unique_ptr<LeastSquaresGradient> lsq_;
+  BoundaryValues phi_b_;
+  VectorField grad_;
+  OwnedMat matrix_;
+  OwnedVec rhs_, solution_;
+  OwnedKsp ksp_;
+};
+
+}  // namespace wallrans

@@ -1,0 +1,48 @@
+// Spalart-Allmaras one-equation model (Spalart & Allmaras 1994) with the variants standard,
+// noft2 and negative (Allmaras, Johnson & Spalart 2012); equations in models/README.md, sec. 1.
+#pragma once
+
+#include "models/scalar_transport.hpp"
+#include "models/wall_bounded_model.hpp"
+
+namespace wallrans {
+
+/// Model constants (Spalart & Allmaras 1994; S-tilde limiter and negative branch: Allmaras,
+/// Johnson & Spalart 2012).
+struct SaConstants {
+  static constexpr double cb1 = 0.1355, cb2 = 0.622, sigma = 2.0 / 3.0, kappa = 0.41;
+  static constexpr double cw2 = 0.3, cw3 = 2.0, cv1 = 7.1, ct3 = 1.2, ct4 = 0.5;
+  static constexpr double cv2 = 0.7, cv3 = 0.9, cn1 = 16.0;
+  static constexpr double cw1 = cb1 / (kappa * kappa) + (1.0 + cb2) / sigma;
+};
+
+/// Source terms of the SA equation at one point, split as production (explicit), destruction
+/// coefficient (destruction = coefficient * nu_tilde, implicit when positive) and the cb2
+/// gradient term. Local, pure: shared by the 2-D model and its manufactured-solution test.
+struct SaSource {
+  double production;
+  double destruction_coefficient;
+  double gradient_term;
+  double nut;         ///< eddy viscosity nu_tilde f_v1 (0 where nu_tilde < 0)
+  double diffusivity; ///< (nu + nu_tilde f_n) / sigma
+};
+SaSource sa_source(double nu_tilde, double nu, double d, double vorticity, double grad_nu_tilde_sq, bool with_ft2,
+                   bool negative_branch);
+
+class SpalartAllmaras final : public WallBoundedModel {
+ public:
+  SpalartAllmaras(const CaseSpec& spec, const Grid& grid, const BoundaryMap& boundaries);
+  std::string name() const override { return "spalart_allmaras/" + spec_.turbulence.variant; }
+  void update(const MeanFlowView& flow) override;
+  std::vector<ModelResidual> residuals() const override { return {{"nu_tilde", residual_}}; }
+  std::vector<std::pair<std::string, const Field*>> output_fields() const override;
+  Field& variable() { return nu_tilde_; }
+
+ private:
+  ScalarTransport transport_;
+  Field nu_tilde_, gamma_, su_, sp_;
+  double residual_ = 0.0;
+  bool with_ft2_, negative_;
+};
+
+}  // namespace wallrans
