@@ -44,7 +44,11 @@ void BaldwinBarth::update(const MeanFlowView& flow) {
       sp_(i, j) = std::min(production, 0.0) / std::max(r, 1e-300);
     }
   }
-  ScalarEquation eq{&r_, &gamma_, &su_, &sp_};
+  ScalarEquation eq;
+  eq.phi = &r_;
+  eq.gamma = &gamma_;
+  eq.source_u = &su_;
+  eq.source_p = &sp_;
   eq.wall_value = 0.0;
   eq.wall_gamma = nu_;
   eq.freestream_value = spec_.turbulence.freestream_viscosity_ratio * nu_;

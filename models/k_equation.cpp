@@ -45,7 +45,11 @@ void KEquation::update(const MeanFlowView& flow) {
       sp_(i, j) = -c.dissipation_coefficient;
     }
   }
-  ScalarEquation eq{&k_, &gamma_, &su_, &sp_};
+  ScalarEquation eq;
+  eq.phi = &k_;
+  eq.gamma = &gamma_;
+  eq.source_u = &su_;
+  eq.source_p = &sp_;
   eq.wall_value = 0.0;
   eq.wall_gamma = nu_;
   eq.freestream_value = freestream_k();

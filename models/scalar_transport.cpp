@@ -45,11 +45,13 @@ void ScalarTransport::boundary_values(const MeanFlowView& flow, const Field& phi
     double value = phi(f.i, f.j);
     if (kind == BoundaryKind::wall) value = wall_value;
     else if (is_dirichlet(kind, flow.boundary_flux[k])) value = freestream;
+    if (boundary_function_ && (kind == BoundaryKind::wall || kind == BoundaryKind::inflow)) value = boundary_function_(f.centre);
     phi_b_.at(f) = value;
   }
 }
 
 void ScalarTransport::gradient_of(const Field& phi, double wall_value, const MeanFlowView& flow, VectorField& out) {
+  boundary_function_ = nullptr;
   boundary_values(flow, phi, wall_value, 0.0);
   lsq_->compute(phi, phi_b_, out);
   out.exchange();
@@ -58,6 +60,7 @@ void ScalarTransport::gradient_of(const Field& phi, double wall_value, const Mea
 double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
   Field& phi = *eq.phi;
   const Field& gamma = *eq.gamma;
+  boundary_function_ = eq.boundary_value;
   boundary_values(flow, phi, eq.wall_value, eq.freestream_value);
   lsq_->compute(phi, phi_b_, grad_);
   grad_.exchange();
@@ -141,8 +144,11 @@ double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
         const double flux = flow.boundary_flux[slot];
         const BoundaryKind kind = boundaries_.spec(f.side, f.index).kind;
         const double value = phi_b_.at(f);
-        if (flux >= 0.0) diag += flux;  // leaving: upwind is this cell
-        else rhs -= flux * value;       // entering: carries the boundary value
+        // A prescribed face value is convected in both directions (first order otherwise where
+        // flow leaves through it); elsewhere leaving flow carries the cell value.
+        if (is_dirichlet(kind, flux)) rhs -= flux * value;
+        else if (flux >= 0.0) diag += flux;
+        else rhs -= flux * value;
         if (is_dirichlet(kind, flux)) {
           const double area = norm(f.area);
           const double s1 = dot(f.centre - grid_.centre(i, j), (1.0 / area) * f.area);

@@ -14,14 +14,17 @@
 namespace wallrans {
 
 struct ScalarEquation {
-  Field* phi;              ///< unknown (ghosted); updated in place, ghosts refreshed
-  const Field* gamma;      ///< diffusion coefficient [m^2/s] (ghosts current)
-  const Field* source_u;   ///< explicit source per unit volume (owned cells)
-  const Field* source_p;   ///< implicit source coefficient per unit volume, <= 0 (owned cells)
+  Field* phi = nullptr;    ///< unknown (ghosted); updated in place, ghosts refreshed
+  const Field* gamma = nullptr;     ///< diffusion coefficient [m^2/s] (ghosts current)
+  const Field* source_u = nullptr;  ///< explicit source per unit volume (owned cells)
+  const Field* source_p = nullptr;  ///< implicit source coefficient per unit volume, <= 0 (owned cells)
   double wall_value = 0.0;       ///< value at no-slip walls
   double wall_gamma = -1.0;      ///< diffusion coefficient at walls (< 0: use the cell value)
   double freestream_value = 0.0; ///< value carried in through inflow and free boundaries
   double relax = 0.8;
+  /// Optional: value at wall/inflow faces as a function of the face centre (manufactured
+  /// solutions); replaces wall_value and freestream_value there.
+  std::function<double(Vec2)> boundary_value;
 };
 
 class ScalarTransport {
@@ -47,6 +50,7 @@ class ScalarTransport {
   std::vector<BoundaryFace> faces_;
   std::unique_ptr<LeastSquaresGradient> lsq_;
   BoundaryValues phi_b_;
+  std::function<double(Vec2)> boundary_function_;
   VectorField grad_;
   OwnedMat matrix_;
   OwnedVec rhs_, solution_;

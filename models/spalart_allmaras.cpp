@@ -73,13 +73,19 @@ void SpalartAllmaras::update(const MeanFlowView& flow) {
         su_(i, j) = s.production + s.gradient_term - s.destruction_coefficient * nt;
         sp_(i, j) = 0.0;
       }
+      if (extra_source_) su_(i, j) += extra_source_(grid_.centre(i, j));
     }
   }
-  ScalarEquation eq{&nu_tilde_, &gamma_, &su_, &sp_};
+  ScalarEquation eq;
+  eq.phi = &nu_tilde_;
+  eq.gamma = &gamma_;
+  eq.source_u = &su_;
+  eq.source_p = &sp_;
   eq.wall_value = 0.0;
   eq.wall_gamma = nu_ / SaConstants::sigma;
   eq.freestream_value = spec_.turbulence.freestream_viscosity_ratio * nu_;
   eq.relax = spec_.turbulence.relax;
+  eq.boundary_value = boundary_value_;
   residual_ = transport_.solve(flow, eq);
   if (!negative_) {
     for (double& v : nu_tilde_.data()) v = std::max(v, 0.0);

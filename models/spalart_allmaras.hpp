@@ -2,6 +2,8 @@
 // noft2 and negative (Allmaras, Johnson & Spalart 2012); equations in models/README.md, sec. 1.
 #pragma once
 
+#include <functional>
+
 #include "models/scalar_transport.hpp"
 #include "models/wall_bounded_model.hpp"
 
@@ -37,12 +39,17 @@ class SpalartAllmaras final : public WallBoundedModel {
   std::vector<ModelResidual> residuals() const override { return {{"nu_tilde", residual_}}; }
   std::vector<std::pair<std::string, const Field*>> output_fields() const override;
   Field& variable() { return nu_tilde_; }
+  /// Manufactured-solution hooks: an extra source per unit volume s(x) [m^2/s^2] added to the
+  /// right-hand side, and the boundary value of nu_tilde on wall/inflow faces as a function.
+  void set_extra_source(std::function<double(Vec2)> source) { extra_source_ = std::move(source); }
+  void set_boundary_value(std::function<double(Vec2)> value) { boundary_value_ = std::move(value); }
 
  private:
   ScalarTransport transport_;
   Field nu_tilde_, gamma_, su_, sp_;
   double residual_ = 0.0;
   bool with_ft2_, negative_;
+  std::function<double(Vec2)> extra_source_, boundary_value_;
 };
 
 }  // namespace wallrans
