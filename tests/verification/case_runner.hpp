@@ -1,13 +1,12 @@
-// Test helper: builds grid, boundaries, laminar model and solver for a spec and iterates to
-// convergence (or the iteration cap).
+// Test helper: builds grid, boundaries, the case's turbulence model and the solver for a spec,
+// and iterates to convergence (or the iteration cap).
 #pragma once
 
-#include <cstdio>
-#include <cstdlib>
 #include <memory>
 
 #include "coupling/flow_solver.hpp"
 #include "grid/boundary.hpp"
+#include "models/model_factory.hpp"
 
 namespace wallrans::test_support {
 
@@ -20,21 +19,25 @@ struct CaseRun {
   bool converged = false;
 };
 
-/// Collective. `setup` may install sources or boundary functions before iterating.
+/// Collective over `comm`. `setup` may install sources or boundary functions before iterating.
 template <typename Setup>
-CaseRun run_case(const CaseSpec& spec, Setup&& setup) {
+CaseRun run_case_on(MPI_Comm comm, const CaseSpec& spec, Setup&& setup) {
   CaseRun run;
-  run.grid = std::make_unique<Grid>(MPI_COMM_WORLD, generate_nodes(spec.grid), spec.periodic.axis == PeriodicAxis::x);
+  run.grid = std::make_unique<Grid>(comm, generate_nodes(spec.grid), spec.periodic.axis == PeriodicAxis::x);
   run.boundaries = std::make_unique<BoundaryMap>(spec, run.grid->nodes());
-  run.model = std::make_unique<LaminarModel>(*run.grid);
+  run.model = make_turbulence_model(spec, *run.grid, *run.boundaries);
   run.solver = std::make_unique<FlowSolver>(spec, *run.grid, *run.boundaries, *run.model);
   setup(*run.solver);
   do {
     run.status = run.solver->iterate();
     run.converged = run.solver->converged(run.status);
-    if (std::getenv("DBG") && (run.status.iteration % 50 == 0 || run.status.iteration < 30)) std::printf("%d %g %g %g\n", run.status.iteration, run.status.normalised.u, run.status.normalised.v, run.status.normalised.continuity);
   } while (!run.converged && run.status.iteration < spec.iterations.max);
   return run;
+}
+
+template <typename Setup>
+CaseRun run_case(const CaseSpec& spec, Setup&& setup) {
+  return run_case_on(MPI_COMM_WORLD, spec, std::forward<Setup>(setup));
 }
 
 inline CaseRun run_case(const CaseSpec& spec) {
