@@ -69,7 +69,7 @@ struct Result {
 };
 
 // Bound on |bulk error| [%] per Reynolds number. SA and SA-neg: the bounds (5 % at
-// Re_tau 395 and 590, 7 % at 180). The others: measured errors (see models/README.md table)
+// Re_tau 395 and 590, 7 % at 180). The others: measured errors (docs/validation-channel.md)
 // rounded up to the next whole percent plus one; they are regression bounds from honest
 // measurement, not tuned.
 std::array<double, 3> bulk_bound(const Variant& v) {
