@@ -312,3 +312,44 @@ TEST(CavityRanks, OneAndTwoRanksAgree) {
 }
 
 }  // namespace
+
+// A turbulent run writes the model's fields, first-cell y+ and profiles. Run to the cap on the
+// shipped SA channel case (500 iterations: outputs, not convergence, are checked here).
+TEST(TurbulentRun, WritesModelFieldsWallYplusAndProfiles) {
+  ScratchDirectory scratch("wallrans_cli_turbulent");
+  const ProgramResult result =
+      run_program_mpi(2, scratch.path(),
+                      {"run", std::string(WALLRANS_SOURCE_DIR) + "/configs/channel_sa_re180.yaml", "--output-dir", "out",
+                       "--max-iterations", "500", "--quiet"},
+                      scratch.path() / "logs", "turbulent");
+  ASSERT_EQ(result.exit_status, 3) << result.out << result.err;  // iteration cap
+  const fs::path out = scratch.path() / "out";
+  vtkNew<vtkXMLPStructuredGridReader> reader;
+  reader->SetFileName((out / "fields.pvts").string().c_str());
+  reader->Update();
+  vtkCellData* cells = reader->GetOutput()->GetCellData();
+  const auto nut = scalar_array(cells, "eddy_viscosity");
+  const auto nu_tilde = scalar_array(cells, "nu_tilde");
+  const auto distance = scalar_array(cells, "wall_distance");
+  const auto yplus = scalar_array(cells, "y_plus");
+  ASSERT_EQ(nut.size(), 4u * 128u);
+  for (size_t k = 0; k < nut.size(); ++k) {
+    // Channel walls at y = 0 and y = 2: the wall distance of a cell is at most 1 (the half-height).
+    EXPECT_GT(distance[k], 0.0);
+    EXPECT_LE(distance[k], 1.0);
+    EXPECT_GE(nut[k], 0.0);
+    EXPECT_GE(yplus[k], 0.0);
+    EXPECT_TRUE(std::isfinite(nu_tilde[k]));
+  }
+  EXPECT_GT(*std::max_element(nut.begin(), nut.end()), 0.0);  // turbulent somewhere
+  const auto history = wallrans::read_csv((out / "history.csv").string());
+  EXPECT_GE(column_of(history, "nu_tilde_residual"), 0);
+  const auto wall = wallrans::read_csv((out / "wall.csv").string());
+  const int yp = column_of(wall, "first_cell_y_plus");
+  EXPECT_EQ(wall.rows.size(), 8u);  // 4 faces on each of the two walls
+  for (const auto& row : wall.rows) EXPECT_GT(row[yp], 0.0);
+  const auto profile = wallrans::read_csv((out / "profile_0.csv").string());
+  EXPECT_EQ(profile.columns, (std::vector<std::string>{"x", "y", "wall_distance", "y_plus", "u_tangential", "u_plus",
+                                                       "nut_over_nu"}));
+  EXPECT_EQ(profile.rows.size(), 128u);
+}
