@@ -12,6 +12,7 @@ class MixingLength final : public WallBoundedModel {
       : WallBoundedModel(spec, grid, boundaries) {}
   std::string name() const override { return "mixing_length"; }
   void update(const MeanFlowView& flow) override;
+  std::vector<std::pair<std::string, Field*>> restart_state() override { return {{"eddy_viscosity", &nut_}}; }
 
   static constexpr double kappa = 0.41, a_plus = 26.0, outer_fraction = 0.09;
 };

@@ -38,6 +38,7 @@ class ScalarTransport {
 
   /// Least-squares gradient of the last solved phi (owned and ghost cells, before the step).
   const VectorField& gradient() const { return grad_; }
+  VectorField& gradient() { return grad_; }  // restart state
   /// Local: gradient of any field with the given wall value (zero gradient elsewhere); owned
   /// cells, ghosts refreshed. Used for model terms such as grad nu_t.
   void gradient_of(const Field& phi, double wall_value, const MeanFlowView& flow, VectorField& out);

@@ -38,6 +38,10 @@ class SpalartAllmaras final : public WallBoundedModel {
   void update(const MeanFlowView& flow) override;
   std::vector<ModelResidual> residuals() const override { return {{"nu_tilde", residual_}}; }
   std::vector<std::pair<std::string, const Field*>> output_fields() const override;
+  std::vector<std::pair<std::string, Field*>> restart_state() override {
+    return {{"nu_tilde", &nu_tilde_}, {"eddy_viscosity", &nut_}, {"nu_tilde" "_gradient_x", &transport_.gradient().x},
+            {"nu_tilde" "_gradient_y", &transport_.gradient().y}};
+  }
   Field& variable() { return nu_tilde_; }
   /// Manufactured-solution hooks: an extra source per unit volume s(x) [m^2/s^2] added to the
   /// right-hand side, and the boundary value of nu_tilde on wall/inflow faces as a function.

@@ -43,6 +43,9 @@ class TurbulenceModel {
   /// Eddy viscosity nu_t [m^2/s] in the ghosted range (ghosts current after update()).
   virtual const Field& eddy_viscosity() const = 0;
   virtual std::vector<ModelResidual> residuals() const { return {}; }
+  /// Every cell field the model needs to continue bit-identically after a restart (its
+  /// variables, the eddy viscosity and any lagged state), named for the checkpoint; borrowed.
+  virtual std::vector<std::pair<std::string, Field*>> restart_state() { return {}; }
   /// Cell fields worth writing (model variable, wall distance, y+), borrowed.
   virtual std::vector<std::pair<std::string, const Field*>> output_fields() const { return {}; }
 };

@@ -247,6 +247,29 @@ IterationStatus FlowSolver::iterate() {
   return status;
 }
 
+SolverRestartState FlowSolver::restart_state() {
+  SolverRestartState state;
+  state.cells = {{"velocity_x", &vel_.x},          {"velocity_y", &vel_.y},          {"pressure", &p_},
+                 {"pressure_gradient_x", &grad_p_.x}, {"pressure_gradient_y", &grad_p_.y}, {"flux_east", &flux_e_},
+                 {"flux_north", &flux_n_}};
+  state.left = {{"flux_west_boundary", &flux_w_}};
+  state.bottom = {{"flux_south_boundary", &flux_s_}};
+  state.scalars = {{"momentum_residual_reference", &reference_.u}};
+  model_reference_.resize(model_.residuals().size(), 0.0);
+  for (size_t k = 0; k < model_reference_.size(); ++k)
+    state.scalars.push_back({"model_residual_reference_" + std::to_string(k), &model_reference_[k]});
+  state.iteration = &iteration_;
+  return state;
+}
+
+void FlowSolver::restarted() {
+  vel_.exchange();
+  p_.exchange();
+  grad_p_.exchange();
+  flux_e_.exchange();
+  flux_n_.exchange();
+}
+
 MeanFlowView FlowSolver::view() const {
   return MeanFlowView{grid_,   boundaries_, bfaces_, bflux_,       vel_, grad_u_, grad_v_,
                       flux_e_, flux_n_,     wall_shear_, spec_.flow.kinematic_viscosity};

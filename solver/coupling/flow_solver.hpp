@@ -42,6 +42,14 @@ struct WallSample {
   double first_cell_distance;  ///< normal distance wall -> first cell centre [m]
 };
 
+/// Everything the solver needs to continue bit-identically from a checkpoint, borrowed.
+struct SolverRestartState {
+  std::vector<std::pair<std::string, Field*>> cells;             ///< cell fields, global (i, j)
+  std::vector<std::pair<std::string, std::vector<double>*>> left, bottom;  ///< boundary-face arrays
+  std::vector<std::pair<std::string, double*>> scalars;          ///< residual references
+  int* iteration;
+};
+
 class FlowSolver {
  public:
   /// Collective. The spec, grid, boundary map and model must outlive the solver.
@@ -77,6 +85,11 @@ class FlowSolver {
   /// |tau_w| of every no-slip wall face of the domain (order: left, right, bottom, top sides,
   /// increasing index), the same on every rank; refreshed each iteration.
   const std::vector<double>& wall_shear() const { return wall_shear_; }
+  /// The solver's part of a checkpoint (the model's part is TurbulenceModel::restart_state()).
+  /// After reading values into it, call restarted().
+  SolverRestartState restart_state();
+  /// Collective: refreshes ghosts and derived data after a restart read.
+  void restarted();
 
  private:
   struct FaceTerms;
