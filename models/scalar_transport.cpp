@@ -144,17 +144,35 @@ double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
         const double flux = flow.boundary_flux[slot];
         const BoundaryKind kind = boundaries_.spec(f.side, f.index).kind;
         const double value = phi_b_.at(f);
-        // A prescribed face value is convected in both directions (first order otherwise where
-        // flow leaves through it); elsewhere leaving flow carries the cell value.
-        if (is_dirichlet(kind, flux)) rhs -= flux * value;
-        else if (flux >= 0.0) diag += flux;
-        else rhs -= flux * value;
+        // Entering flow carries the boundary value. Leaving flow is upwind (this cell) in the
+        // matrix; through a prescribed-value face the scheme's face value, reconstructed from the
+        // cell towards the prescribed value, is added as a deferred correction (second order). An
+        // implicit prescribed outflow value would take the outflow off the diagonal, and at high
+        // cell Peclet numbers the outer iterations then diverge.
+        if (flux >= 0.0) {
+          diag += flux;
+          if (is_dirichlet(kind, flux)) {
+            const Vec2 xp = grid_.centre(i, j);
+            const double phi_f = face_value(scheme_, flux, phi(i, j), value, grad_(i, j), grad_(i, j), xp,
+                                            f.centre, f.centre, 0.0, Vec2{});
+            rhs -= flux * (phi_f - phi(i, j));
+          }
+        } else {
+          rhs -= flux * value;
+        }
         if (is_dirichlet(kind, flux)) {
           const double area = norm(f.area);
           const double s1 = dot(f.centre - grid_.centre(i, j), (1.0 / area) * f.area);
           const double c = (kind == BoundaryKind::wall && eq.wall_gamma >= 0.0 ? eq.wall_gamma : gamma(i, j)) * area / s1;
           diag += c;
           rhs += c * value;
+          // Non-orthogonal correction (deferred): the cell value moved onto the face normal by its
+          // gradient, as for the momentum equations; without it the boundary flux misses the
+          // tangential offset times the tangential derivative, an O(1) error on skewed grids.
+          const Vec2 n = (1.0 / area) * f.area;
+          const Vec2 r = grid_.centre(i, j) - f.centre;
+          const Vec2 tangential = r - dot(r, n) * n;
+          rhs += c * dot(grad_(i, j), tangential);
         }
       }
       residual += std::abs(rhs + off - diag * phi(i, j));

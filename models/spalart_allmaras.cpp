@@ -65,14 +65,17 @@ void SpalartAllmaras::update(const MeanFlowView& flow) {
       const Vec2 g = grad(i, j);
       const SaSource s = sa_source(nt, nu_, distance(i, j), inv.vorticity, dot(g, g), with_ft2_, negative_);
       gamma_(i, j) = s.diffusivity;
-      // Destruction implicit where it removes nu_tilde (Patankar's rule for negative sources).
-      if (s.destruction_coefficient >= 0.0) {
-        su_(i, j) = s.production + s.gradient_term;
-        sp_(i, j) = -s.destruction_coefficient;
-      } else {
-        su_(i, j) = s.production + s.gradient_term - s.destruction_coefficient * nt;
-        sp_(i, j) = 0.0;
-      }
+      // Local source Q = production - destruction, linearised as Q* + S_p (nu_tilde - nu_tilde*)
+      // with S_p <= 0 the steeper of its slope dQ/dnu_tilde and -destruction/nu_tilde (Patankar
+      // 1980, sec. 7.2-3): the slope keeps the outer iteration stable where f_w and S~ make the
+      // destruction grow faster than nu_tilde^2 (near walls at chi ~ 1).
+      const double net = s.production - s.destruction_coefficient * nt;
+      const double step = 1e-6 * std::max(std::abs(nt), nu_);
+      const SaSource s_step =
+          sa_source(nt + step, nu_, distance(i, j), inv.vorticity, dot(g, g), with_ft2_, negative_);
+      const double slope = (s_step.production - s_step.destruction_coefficient * (nt + step) - net) / step;
+      sp_(i, j) = std::min({slope, -s.destruction_coefficient, 0.0});
+      su_(i, j) = net - sp_(i, j) * nt + s.gradient_term;
       if (extra_source_) su_(i, j) += extra_source_(grid_.centre(i, j));
     }
   }
