@@ -1,0 +1,421 @@
+// Collective checkpoint writing and reading with parallel HDF5: MPI-IO driver, collective
+// hyperslab transfers of each rank's owned block. Rank 0 validates a file alone before any
+// collective HDF5 call touches it, and every step ends with a failure agreement across ranks.
+#include "io/checkpoint.hpp"
+
+#include <fcntl.h>
+#include <unistd.h>
+
+#include <algorithm>
+#include <cerrno>
+#include <csignal>
+#include <ctime>
+#include <filesystem>
+#include <set>
+#include <string>
+#include <system_error>
+#include <vector>
+
+#include "core/error.hpp"
+#include "io/checkpoint_format.hpp"
+#include "io/hdf5_attributes.hpp"
+#include "io/hdf5_handles.hpp"
+#include "io/rank_agreement.hpp"
+
+namespace wallrans {
+
+namespace {
+
+namespace fs = std::filesystem;
+namespace format = checkpoint_format;
+
+// One rank's part of a dataset: the global dimensions and the start and size of the block this
+// rank transfers (all sizes zero on a rank that owns none of it).
+struct Block {
+  std::vector<hsize_t> global, start, count;
+  size_t size() const {
+    size_t n = 1;
+    for (const hsize_t c : count) n *= static_cast<size_t>(c);
+    return n;
+  }
+};
+
+hsize_t to_hsize(int value) { return static_cast<hsize_t>(value); }
+
+Block cell_block(const Grid& grid) {
+  return {{to_hsize(grid.cells_y()), to_hsize(grid.cells_x())},
+          {to_hsize(grid.y_begin()), to_hsize(grid.x_begin())},
+          {to_hsize(grid.y_end() - grid.y_begin()), to_hsize(grid.x_end() - grid.x_begin())}};
+}
+
+// Nodes of the owned cells, without the far column/row unless this rank owns the last cells, so
+// the ranks' blocks are disjoint and cover all nodes.
+Block node_block(const Grid& grid) {
+  const int extra_x = grid.x_end() == grid.cells_x() ? 1 : 0,
+            extra_y = grid.y_end() == grid.cells_y() ? 1 : 0;
+  return {
+      {to_hsize(grid.cells_y() + 1), to_hsize(grid.cells_x() + 1)},
+      {to_hsize(grid.y_begin()), to_hsize(grid.x_begin())},
+      {to_hsize(grid.y_end() - grid.y_begin() + extra_y), to_hsize(grid.x_end() - grid.x_begin() + extra_x)}};
+}
+
+bool runs_along_x(Side side) { return side == Side::bottom || side == Side::top; }
+
+int side_length(const Grid& grid, Side side) { return runs_along_x(side) ? grid.cells_x() : grid.cells_y(); }
+
+// Positions [begin, end) along `side` of this rank's boundary faces; empty if it has none there.
+struct SideRange {
+  int begin = 0, end = 0;
+};
+
+SideRange owned_side_range(const Grid& grid, Side side) {
+  switch (side) {
+    case Side::left:
+      return grid.x_begin() == 0 ? SideRange{grid.y_begin(), grid.y_end()} : SideRange{};
+    case Side::right:
+      return grid.x_end() == grid.cells_x() ? SideRange{grid.y_begin(), grid.y_end()} : SideRange{};
+    case Side::bottom:
+      return grid.y_begin() == 0 ? SideRange{grid.x_begin(), grid.x_end()} : SideRange{};
+    case Side::top:
+      return grid.y_end() == grid.cells_y() ? SideRange{grid.x_begin(), grid.x_end()} : SideRange{};
+  }
+  return {};
+}
+
+Block side_block(const Grid& grid, Side side) {
+  const SideRange range = owned_side_range(grid, side);
+  return {{to_hsize(side_length(grid, side))}, {to_hsize(range.begin)}, {to_hsize(range.end - range.begin)}};
+}
+
+std::string field_path(const std::string& name) {
+  return std::string("/") + format::fields_group + "/" + name;
+}
+std::string side_path(const std::string& name) {
+  return std::string("/") + format::boundary_group + "/" + name;
+}
+
+// Local. Selects `block` in `file_space` (nothing if it is empty) and returns the matching
+// contiguous memory space.
+Hdf5Space select_block(hid_t file_space, const Block& block) {
+  const int rank = static_cast<int>(block.global.size());
+  if (block.size() == 0) {
+    check_hdf5(H5Sselect_none(file_space), "H5Sselect_none");
+    const std::vector<hsize_t> one(block.global.size(), 1);
+    Hdf5Space memory(check_hdf5(H5Screate_simple(rank, one.data(), nullptr), "H5Screate_simple"));
+    check_hdf5(H5Sselect_none(memory.get()), "H5Sselect_none");
+    return memory;
+  }
+  check_hdf5(H5Sselect_hyperslab(file_space, H5S_SELECT_SET, block.start.data(), nullptr, block.count.data(),
+                                 nullptr),
+             "H5Sselect_hyperslab");
+  return Hdf5Space(check_hdf5(H5Screate_simple(rank, block.count.data(), nullptr), "H5Screate_simple"));
+}
+
+Hdf5PropertyList collective_transfer() {
+  Hdf5PropertyList transfer(check_hdf5(H5Pcreate(H5P_DATASET_XFER), "H5Pcreate"));
+  check_hdf5(H5Pset_dxpl_mpio(transfer.get(), H5FD_MPIO_COLLECTIVE), "H5Pset_dxpl_mpio");
+  return transfer;
+}
+
+Hdf5PropertyList parallel_access(MPI_Comm comm) {
+  Hdf5PropertyList access(check_hdf5(H5Pcreate(H5P_FILE_ACCESS), "H5Pcreate"));
+  check_hdf5(H5Pset_fapl_mpio(access.get(), comm, MPI_INFO_NULL), "H5Pset_fapl_mpio");
+  return access;
+}
+
+// Collective. Creates dataset `name` in `group` (64-bit little-endian floats, no fill pass) with
+// an optional "side" attribute and writes this rank's block of `values` collectively.
+void write_dataset(hid_t group, const std::string& name, const Block& block,
+                   const std::vector<double>& values, hid_t transfer, const std::string& side) {
+  const Hdf5Space file_space(
+      check_hdf5(H5Screate_simple(static_cast<int>(block.global.size()), block.global.data(), nullptr),
+                 "H5Screate_simple"));
+  const Hdf5PropertyList creation(check_hdf5(H5Pcreate(H5P_DATASET_CREATE), "H5Pcreate"));
+  check_hdf5(H5Pset_fill_time(creation.get(), H5D_FILL_TIME_NEVER), "H5Pset_fill_time");
+  const Hdf5Dataset dataset(check_hdf5(H5Dcreate2(group, name.c_str(), H5T_IEEE_F64LE, file_space.get(),
+                                                  H5P_DEFAULT, creation.get(), H5P_DEFAULT),
+                                       "H5Dcreate2"));
+  if (!side.empty()) write_string_attribute(dataset.get(), format::side_attribute, side);
+  const Hdf5Space memory = select_block(file_space.get(), block);
+  const double unused = 0.0;
+  check_hdf5(H5Dwrite(dataset.get(), H5T_NATIVE_DOUBLE, memory.get(), file_space.get(), transfer,
+                      values.empty() ? &unused : values.data()),
+             "H5Dwrite");
+}
+
+// Collective. Reads this rank's block of dataset `dataset_path` (already validated by rank 0).
+std::vector<double> read_dataset(hid_t file, const std::string& dataset_path, const Block& block,
+                                 hid_t transfer) {
+  const Hdf5Dataset dataset(check_hdf5(H5Dopen2(file, dataset_path.c_str(), H5P_DEFAULT), "H5Dopen2"));
+  const Hdf5Space file_space(check_hdf5(H5Dget_space(dataset.get()), "H5Dget_space"));
+  const Hdf5Space memory = select_block(file_space.get(), block);
+  std::vector<double> values(block.size());
+  double unused = 0.0;
+  check_hdf5(H5Dread(dataset.get(), H5T_NATIVE_DOUBLE, memory.get(), file_space.get(), transfer,
+                     values.empty() ? &unused : values.data()),
+             "H5Dread");
+  return values;
+}
+
+// Local. The owned cells of `field` in block order (j-major, i fastest).
+std::vector<double> owned_values(const Grid& grid, const Field& field) {
+  std::vector<double> values;
+  values.reserve(grid.n_owned());
+  for (int j = grid.y_begin(); j < grid.y_end(); ++j) {
+    for (int i = grid.x_begin(); i < grid.x_end(); ++i) values.push_back(field(i, j));
+  }
+  return values;
+}
+
+// Local. The node coordinates (x or y) of this rank's node block.
+std::vector<double> node_values(const Grid& grid, const Block& block, bool want_x) {
+  std::vector<double> values;
+  values.reserve(block.size());
+  const int j0 = static_cast<int>(block.start[0]), i0 = static_cast<int>(block.start[1]);
+  for (int j = j0; j < j0 + static_cast<int>(block.count[0]); ++j) {
+    for (int i = i0; i < i0 + static_cast<int>(block.count[1]); ++i) {
+      const Vec2 node = grid.nodes().at(i, j);
+      values.push_back(want_x ? node.x : node.y);
+    }
+  }
+  return values;
+}
+
+// Local. Rejects a request that would give an ambiguous file or touch memory outside an array.
+void check_request(const Grid& grid, const std::string& path, const std::vector<CellArray>& cells,
+                   const std::vector<SideArray>& sides, bool writing) {
+  const std::string where = "checkpoint '" + path + "': ";
+  auto check_name = [&where](const std::string& kind, const std::string& name, std::set<std::string>& seen) {
+    if (!format::is_valid_name(name)) {
+      throw Error(where + kind + " name '" + name +
+                  "' must be non-empty and made of letters, digits, '_', '-' and '.'");
+    }
+    if (!seen.insert(name).second) throw Error(where + kind + " name '" + name + "' is used twice");
+  };
+  std::set<std::string> cell_names, side_names;
+  for (const CellArray& cell : cells) {
+    check_name("cell array", cell.name, cell_names);
+    if (cell.field == nullptr || cell.field->data().size() != grid.n_ghosted()) {
+      throw Error(where + "cell array '" + cell.name + "' is missing or does not belong to this grid");
+    }
+  }
+  for (const SideArray& side : sides) {
+    check_name("side array", side.name, side_names);
+    if (side.values == nullptr) throw Error(where + "side array '" + side.name + "' has no vector");
+    const auto length = static_cast<size_t>(side_length(grid, side.side));
+    if (writing && side.values->size() != length) {
+      throw Error(where + "side array '" + side.name + "' has " + std::to_string(side.values->size()) +
+                  " values, expected " + std::to_string(length) + " (cells along side '" +
+                  to_string(side.side) + "')");
+    }
+  }
+}
+
+void check_scalars(const std::string& path, const CheckpointMetadata& metadata) {
+  std::set<std::string> seen;
+  for (const auto& scalar : metadata.scalars) {
+    if (!format::is_valid_name(scalar.first) || !seen.insert(scalar.first).second) {
+      throw Error("checkpoint '" + path + "': scalar name '" + scalar.first +
+                  "' must be unique, non-empty and made of letters, digits, '_', '-' and '.'");
+    }
+  }
+}
+
+std::string utc_now() {
+  const std::time_t now = std::time(nullptr);
+  std::tm parts{};
+  if (gmtime_r(&now, &parts) == nullptr) throw Error("checkpoint: cannot convert the current time to UTC");
+  char text[32];
+  std::strftime(text, sizeof text, "%Y-%m-%dT%H:%M:%SZ", &parts);
+  return text;
+}
+
+void make_parent_directory(const std::string& path) {
+  const fs::path parent = fs::path(path).parent_path();
+  if (parent.empty()) return;
+  std::error_code error;
+  fs::create_directories(parent, error);
+  if (error || !fs::is_directory(parent)) {
+    throw Error("checkpoint '" + path + "': cannot create directory '" + parent.string() +
+                "': " + (error ? error.message() : std::string("a file of that name exists")));
+  }
+}
+
+// Closes a POSIX file descriptor on scope exit.
+class FileDescriptor {
+ public:
+  explicit FileDescriptor(int descriptor) : descriptor_(descriptor) {}
+  FileDescriptor(const FileDescriptor&) = delete;
+  FileDescriptor& operator=(const FileDescriptor&) = delete;
+  ~FileDescriptor() {
+    if (descriptor_ >= 0) (void)::close(descriptor_);
+  }
+  int get() const { return descriptor_; }
+
+ private:
+  int descriptor_;
+};
+
+// Local (rank 0). Forces the closed temporary file to disk, renames it over `path` (atomic on
+// POSIX file systems) and syncs the directory so the rename itself survives a crash.
+void publish(const std::string& temporary, const std::string& path) {
+  const FileDescriptor file(::open(temporary.c_str(), O_RDONLY | O_CLOEXEC));
+  if (file.get() < 0 || ::fsync(file.get()) != 0) {
+    throw Error("checkpoint: cannot sync '" + temporary + "': " + std::generic_category().message(errno));
+  }
+  std::error_code error;
+  fs::rename(temporary, path, error);
+  if (error)
+    throw Error("checkpoint: cannot rename '" + temporary + "' to '" + path + "': " + error.message());
+  const fs::path parent = fs::path(path).parent_path();
+  const FileDescriptor directory(
+      ::open(parent.empty() ? "." : parent.c_str(), O_RDONLY | O_DIRECTORY | O_CLOEXEC));
+  if (directory.get() >= 0) (void)::fsync(directory.get());  // best effort: not every file system allows it
+}
+
+}  // namespace
+
+CheckpointMetadata write_checkpoint(const Grid& grid, const std::string& path,
+                                    const CheckpointMetadata& metadata, const std::vector<CellArray>& cells,
+                                    const std::vector<SideArray>& sides, int abort_after_datasets) {
+  const QuietHdf5Errors quiet;
+  const MPI_Comm comm = grid.comm();
+  agree(comm, attempt([&] {
+          check_request(grid, path, cells, sides, true);
+          check_scalars(path, metadata);
+        }));
+  // Parallel HDF5 needs identical attribute values on every rank, so rank 0's metadata is used.
+  const CheckpointMetadata stored = format::unpack(run_on_root(comm, [&] {
+    CheckpointMetadata completed = metadata;
+    completed.cells_x = grid.cells_x();
+    completed.cells_y = grid.cells_y();
+    completed.grid_fingerprint = grid_fingerprint(grid.nodes());
+    completed.written_at = utc_now();
+    make_parent_directory(path);
+    return format::pack(completed);
+  }));
+
+  const std::string temporary = path + ".tmp";
+  Hdf5File file;
+  Hdf5Group fields, boundary, nodes;
+  Hdf5PropertyList transfer;
+  agree(comm, attempt([&] {
+          file =
+              Hdf5File(H5Fcreate(temporary.c_str(), H5F_ACC_TRUNC, H5P_DEFAULT, parallel_access(comm).get()));
+          if (!file) throw Error("checkpoint: cannot create '" + temporary + "' (" + hdf5_error_text() + ")");
+          format::write_metadata(file.get(), stored);
+          auto make_group = [&file](const char* name) {
+            return Hdf5Group(check_hdf5(H5Gcreate2(file.get(), name, H5P_DEFAULT, H5P_DEFAULT, H5P_DEFAULT),
+                                        "H5Gcreate2"));
+          };
+          fields = make_group(format::fields_group);
+          boundary = make_group(format::boundary_group);
+          nodes = make_group(format::grid_group);
+          transfer = collective_transfer();
+        }));
+
+  int n_written = 0;
+  auto maybe_abort = [&] {
+    if (abort_after_datasets >= 0 && n_written >= abort_after_datasets) std::raise(SIGKILL);
+  };
+  auto write = [&](hid_t group, const std::string& name, const Block& block,
+                   const std::vector<double>& values, const std::string& side) {
+    agree(comm, attempt([&] { write_dataset(group, name, block, values, transfer.get(), side); }));
+    ++n_written;
+    maybe_abort();
+  };
+  maybe_abort();
+  for (const CellArray& cell : cells) {
+    write(fields.get(), cell.name, cell_block(grid), owned_values(grid, *cell.field), "");
+  }
+  for (const SideArray& side : sides) {
+    const SideRange range = owned_side_range(grid, side.side);
+    const std::vector<double> owned(side.values->begin() + range.begin, side.values->begin() + range.end);
+    write(boundary.get(), side.name, side_block(grid, side.side), owned, to_string(side.side));
+  }
+  const Block block = node_block(grid);
+  write(nodes.get(), "x", block, node_values(grid, block, true), "");
+  write(nodes.get(), "y", block, node_values(grid, block, false), "");
+
+  agree(comm, attempt([&] {
+          fields.reset();
+          boundary.reset();
+          nodes.reset();
+          file.close_checked("H5Fclose");
+        }));
+  run_on_root(comm, [&] {
+    publish(temporary, path);
+    return std::string();
+  });
+  return stored;
+}
+
+CheckpointMetadata read_checkpoint_metadata(MPI_Comm comm, const std::string& path) {
+  const QuietHdf5Errors quiet;
+  return format::unpack(run_on_root(comm, [&] {
+    const Hdf5File file = format::open_for_validation(path);
+    return format::pack(format::read_metadata(file.get(), path));
+  }));
+}
+
+void read_checkpoint(const Grid& grid, const std::string& path, const std::vector<CellArray>& cells,
+                     const std::vector<SideArray>& sides) {
+  const QuietHdf5Errors quiet;
+  const MPI_Comm comm = grid.comm();
+  agree(comm, attempt([&] { check_request(grid, path, cells, sides, false); }));
+  // Rank 0 alone finds bad files, so no rank enters a collective HDF5 call with one.
+  run_on_root(comm, [&] {
+    const Hdf5File file = format::open_for_validation(path);
+    const auto nx = static_cast<unsigned long long>(grid.cells_x());
+    const auto ny = static_cast<unsigned long long>(grid.cells_y());
+    for (const CellArray& cell : cells) {
+      format::check_dataset(file.get(), path, field_path(cell.name), {ny, nx}, "cells_y x cells_x", "");
+    }
+    for (const SideArray& side : sides) {
+      format::check_dataset(file.get(), path, side_path(side.name), {runs_along_x(side.side) ? nx : ny},
+                            runs_along_x(side.side) ? "cells_x" : "cells_y", to_string(side.side));
+    }
+    return std::string();
+  });
+
+  Hdf5File file;
+  Hdf5PropertyList transfer;
+  agree(comm, attempt([&] {
+          file = Hdf5File(H5Fopen(path.c_str(), H5F_ACC_RDONLY, parallel_access(comm).get()));
+          if (!file)
+            throw Error("checkpoint: cannot open '" + path + "' in parallel (" + hdf5_error_text() + ")");
+          transfer = collective_transfer();
+        }));
+  std::vector<std::vector<double>> cell_values(cells.size()), side_values(sides.size());
+  for (size_t k = 0; k < cells.size(); ++k) {
+    agree(comm, attempt([&] {
+            cell_values[k] =
+                read_dataset(file.get(), field_path(cells[k].name), cell_block(grid), transfer.get());
+          }));
+  }
+  for (size_t k = 0; k < sides.size(); ++k) {
+    agree(comm, attempt([&] {
+            side_values[k] = read_dataset(file.get(), side_path(sides[k].name),
+                                          side_block(grid, sides[k].side), transfer.get());
+          }));
+  }
+  agree(comm, attempt([&] { file.close_checked("H5Fclose"); }));
+
+  // Every array was read: only now are the caller's arrays changed.
+  for (size_t k = 0; k < cells.size(); ++k) {
+    Field& field = *cells[k].field;
+    size_t n = 0;
+    for (int j = grid.y_begin(); j < grid.y_end(); ++j) {
+      for (int i = grid.x_begin(); i < grid.x_end(); ++i) field(i, j) = cell_values[k][n++];
+    }
+    field.exchange();
+  }
+  for (size_t k = 0; k < sides.size(); ++k) {
+    std::vector<double>& values = *sides[k].values;
+    values.resize(static_cast<size_t>(side_length(grid, sides[k].side)));
+    const SideRange range = owned_side_range(grid, sides[k].side);
+    std::copy(side_values[k].begin(), side_values[k].end(), values.begin() + range.begin);
+  }
+}
+
+}  // namespace wallrans

@@ -1,0 +1,60 @@
+#!/usr/bin/python3
+"""Independent checks of a wallrans checkpoint with h5py and ElementTree, run by test_checkpoint.
+
+  inspect_checkpoint.py dataset <file.h5> <dataset> <ny> <nx> <j> <i> <expected value>
+  inspect_checkpoint.py xdmf <file.xmf>
+
+Exits non-zero (with a message) if a check fails; `xdmf` prints the number of DataItems checked.
+"""
+import os
+import sys
+import xml.etree.ElementTree as ElementTree
+
+import h5py
+
+
+def text(value):
+    return value.decode() if isinstance(value, bytes) else str(value)
+
+
+def check_dataset(path, name, ny, nx, j, i, expected):
+    with h5py.File(path, "r") as f:
+        assert text(f.attrs["format"]) == "wallrans-checkpoint", f.attrs["format"]
+        data = f[name]
+        assert data.shape == (ny, nx), (name, data.shape)
+        assert data.dtype.kind == "f" and data.dtype.itemsize == 8, data.dtype
+        assert float(data[j, i]) == expected, (name, j, i, float(data[j, i]), expected)
+        for coordinate in ("/grid/x", "/grid/y"):
+            assert f[coordinate].shape == (ny + 1, nx + 1), (coordinate, f[coordinate].shape)
+
+
+def check_xdmf(path):
+    root = ElementTree.parse(path).getroot()
+    assert root.tag == "Xdmf", root.tag
+    grid = root.find("Domain/Grid")
+    assert grid is not None, "no Domain/Grid"
+    assert grid.find("Topology").get("TopologyType") == "2DSMesh"
+    assert grid.find("Geometry").get("GeometryType") == "X_Y"
+    for attribute in grid.findall("Attribute"):
+        assert attribute.get("Center") == "Cell", attribute.attrib
+    n_items = 0
+    for item in root.iter("DataItem"):
+        file_name, dataset = item.text.strip().split(":", 1)
+        assert file_name and "/" not in file_name, file_name
+        dims = tuple(int(n) for n in item.get("Dimensions").split())
+        with h5py.File(os.path.join(os.path.dirname(path), file_name), "r") as f:
+            assert dataset in f, dataset
+            assert f[dataset].shape == dims, (dataset, f[dataset].shape, dims)
+        n_items += 1
+    print(n_items)
+
+
+if __name__ == "__main__":
+    if sys.argv[1] == "dataset":
+        path, name = sys.argv[2], sys.argv[3]
+        ny, nx, j, i = (int(a) for a in sys.argv[4:8])
+        check_dataset(path, name, ny, nx, j, i, float(sys.argv[8]))
+    elif sys.argv[1] == "xdmf":
+        check_xdmf(sys.argv[2])
+    else:
+        sys.exit("unknown command " + sys.argv[1])
