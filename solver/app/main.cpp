@@ -16,13 +16,14 @@ namespace {
 
 constexpr const char* usage =
     "usage: wallrans <command> [arguments]\n"
-    "  run CASE.yaml [--output-dir DIR] [--max-iterations N] [--quiet]\n"
+    "  run CASE.yaml [--output-dir DIR] [--max-iterations N] [--quiet] [--restart FILE.h5] [--walltime S]\n"
     "                  solve the case; writes fields (VTK), history.csv, wall.csv, summary.json\n"
     "  check CASE.yaml validate the case and its grid without running; writes nothing\n"
     "  version         print the version\n"
     "PETSc options for the linear solvers go last, e.g. -pressure_ksp_rtol 1e-3\n"
     "(prefixes: -momentum_, -pressure_).\n"
-    "exit codes: 0 converged/valid, 2 bad input, 3 iteration cap reached, 4 diverged, 1 other failure\n";
+    "exit codes: 0 converged/valid, 2 bad input, 3 iteration cap reached, 4 diverged,\n"
+    "            5 stopped by SIGTERM/SIGINT or the wall-clock budget (checkpoint written), 1 other failure\n";
 
 struct Arguments {
   std::string command;
@@ -58,7 +59,10 @@ Arguments parse(int argc, char** argv) {
       if (arg == "--output-dir") a.run.output_directory = value();
       else if (arg == "--max-iterations") a.run.max_iterations = parse_int(arg, value());
       else if (arg == "--quiet") a.run.quiet = true;
-      else throw wallrans::InputError("command line: unknown option '" + arg + "'; expected --output-dir, --max-iterations or --quiet");
+      else if (arg == "--restart") a.run.restart = value();
+      else if (arg == "--walltime") a.run.walltime = parse_int(arg, value());
+      else throw wallrans::InputError("command line: unknown option '" + arg +
+                                      "'; expected --output-dir, --max-iterations, --quiet, --restart or --walltime");
       continue;
     }
     if (arg.size() > 1 && arg[0] == '-') {

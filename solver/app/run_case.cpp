@@ -3,6 +3,8 @@
 #include "app/run_case.hpp"
 
 #include <chrono>
+#include <csignal>
+#include <cstdlib>
 #include <cmath>
 #include <cstdio>
 #include <filesystem>
@@ -14,6 +16,7 @@
 #include "coupling/flow_solver.hpp"
 #include "grid/boundary.hpp"
 #include "grid/grid_quality.hpp"
+#include "app/checkpointing.hpp"
 #include "io/case_loader.hpp"
 #include "io/csv_writer.hpp"
 #include "io/gather.hpp"
@@ -23,6 +26,22 @@
 namespace wallrans {
 
 namespace {
+
+// Set by SIGTERM/SIGINT (what cluster schedulers send). A signal handler can only touch a
+// lock-free flag of static storage, so this is the program's one piece of global state.
+volatile std::sig_atomic_t stop_requested = 0;
+
+extern "C" void request_stop(int) { stop_requested = 1; }
+
+// Test-only kill switch: WALLRANS_TEST_KILL_IN_CHECKPOINT="<iteration>:<datasets>" kills every
+// rank after that many datasets of the checkpoint of that iteration (see write_checkpoint).
+int kill_switch(int iteration) {
+  const char* text = std::getenv("WALLRANS_TEST_KILL_IN_CHECKPOINT");
+  if (!text) return -1;
+  int at = -1, datasets = -1;
+  if (std::sscanf(text, "%d:%d", &at, &datasets) != 2) return -1;
+  return at == iteration ? datasets : -1;
+}
 
 constexpr const char* caution =
     "RANS results are model-dependent: validate them for your case and defer to applicable codes "
@@ -156,6 +175,14 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
   const Grid& grid = *s.grid;
   auto model = make_turbulence_model(spec, grid, *s.boundaries);
   FlowSolver solver(spec, grid, *s.boundaries, *model);
+  const std::string case_text = resolved_case_yaml(spec);
+  RunCheckpoints checkpoints(spec, grid, solver, *model, case_text);
+  // Restart before anything is written: a bad checkpoint stops the run with the run directory
+  // untouched.
+  const std::optional<std::string> restart = options.restart ? options.restart : spec.checkpoint.restart_from;
+  int first_iteration = 0;
+  if (restart) first_iteration = checkpoints.restart_from(*restart);
+  const std::optional<double> walltime = options.walltime ? options.walltime : spec.checkpoint.walltime;
 
   int rank = 0, size = 1;
   MPI_Comm_rank(comm, &rank);
@@ -179,13 +206,26 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
 
   std::unique_ptr<CsvWriter> history;
   if (rank == 0) {
-    write_text_atomically(dir / "case.resolved.yaml", resolved_case_yaml(spec));
+    write_text_atomically(dir / "case.resolved.yaml", case_text);
+    // On a restart, keep the history rows up to the restart iteration.
+    std::vector<std::vector<double>> earlier;
+    if (first_iteration > 0 && std::filesystem::exists(dir / "history.csv")) {
+      try {
+        for (const auto& row : read_csv((dir / "history.csv").string()).rows)
+          if (!row.empty() && row[0] <= first_iteration) earlier.push_back(row);
+      } catch (const InputError&) {
+        earlier.clear();  // an unreadable old history is replaced, not fatal
+      }
+    }
     std::vector<std::string> columns{"iteration", "u_residual", "v_residual", "continuity_residual"};
     for (const auto& r : model->residuals()) columns.push_back(r.name + "_residual");
     for (const char* c : {"u_residual_abs", "v_residual_abs", "continuity_residual_abs"}) columns.push_back(c);
     for (const auto& r : model->residuals()) columns.push_back(r.name + "_residual_abs");
     for (const char* c : {"momentum_linear_its", "pressure_linear_its", "elapsed_s"}) columns.push_back(c);
     history = std::make_unique<CsvWriter>((dir / "history.csv").string(), columns);
+    for (const auto& row : earlier)
+      if (row.size() == columns.size()) history->row(row);
+    if (first_iteration > 0) std::printf("wallrans: restarted from %s at iteration %d\n", restart->c_str(), first_iteration);
     std::printf("wallrans: case '%s', %d x %d cells on %d rank(s), model %s\n", spec.title.c_str(), grid.cells_x(),
                 grid.cells_y(), size, model->name().c_str());
     std::printf("%8s %12s %12s %12s", "iter", "res_u", "res_v", "res_mass");
@@ -198,12 +238,23 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
     write_vtk_fields(grid, scalars, {{"velocity", &solver.velocity()}}, dir.string(), basename);
   };
 
+  stop_requested = 0;
+  std::signal(SIGTERM, request_stop);
+  std::signal(SIGINT, request_stop);
   IterationStatus status;
-  bool converged = false, diverged = false;
-  double elapsed = 0.0;
+  status.iteration = first_iteration;
+  bool converged = false, diverged = false, stopped = false;
+  double elapsed = 0.0, slowest_iteration = 0.0, checkpoint_seconds = 0.0;
+  auto timed_checkpoint = [&]() {
+    const auto t0 = std::chrono::steady_clock::now();
+    checkpoints.write(dir.string(), kill_switch(status.iteration));
+    checkpoint_seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+  };
   while (status.iteration < spec.iterations.max) {
+    const double before = elapsed;
     status = solver.iterate();
     elapsed = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
+    slowest_iteration = std::max(slowest_iteration, elapsed - before);
     converged = solver.converged(status);
     const auto& r = status.normalised;
     diverged = !std::isfinite(r.u + r.v + r.continuity) || r.u > 1e8 || r.v > 1e8;
@@ -226,11 +277,31 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
     if (spec.output.fields_every > 0 && status.iteration % spec.output.fields_every == 0) {
       fields("fields_" + std::to_string(status.iteration));
     }
+    if (spec.checkpoint.every > 0 && status.iteration % spec.checkpoint.every == 0) timed_checkpoint();
+    // Stop early on a signal, or when one more iteration plus a checkpoint (with margin) would
+    // overrun the wall-clock budget; all ranks decide together.
+    int stop = stop_requested ? 1 : 0;
+    if (walltime && elapsed + 2.0 * slowest_iteration + 2.0 * checkpoint_seconds + 1.0 > *walltime) stop = 1;
+    int stop_all = 0;
+    MPI_Allreduce(&stop, &stop_all, 1, MPI_INT, MPI_MAX, comm);
+    if (stop_all) {
+      stopped = true;
+      if (!(spec.checkpoint.every > 0 && status.iteration % spec.checkpoint.every == 0)) timed_checkpoint();
+      if (rank == 0) {
+        std::printf("wallrans: stopped at iteration %d (%s); checkpoint written\n", status.iteration,
+                    stop_requested ? "signal" : "wall-clock budget");
+      }
+      break;
+    }
   }
+  std::signal(SIGTERM, SIG_DFL);
+  std::signal(SIGINT, SIG_DFL);
   if (diverged) {
     if (rank == 0) std::printf("wallrans: diverged at iteration %d; fields not written (history.csv kept)\n", status.iteration);
     return 4;
   }
+  // A checkpoint at the end of every run that did not diverge, so it can be continued.
+  if (!stopped && !(spec.checkpoint.every > 0 && status.iteration % spec.checkpoint.every == 0)) timed_checkpoint();
   fields("fields");
   if (spec.output.wall_data) {
     std::vector<std::vector<double>> rows;
@@ -252,17 +323,21 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
          << ",\n  \"version\": " << json_string(WALLRANS_VERSION) << ",\n  \"ranks\": " << size
          << ",\n  \"cells\": [" << grid.cells_x() << ", " << grid.cells_y() << "],\n  \"model\": "
          << json_string(model->name()) << ",\n  \"iterations\": " << status.iteration
-         << ",\n  \"converged\": " << (converged ? "true" : "false") << ",\n  \"residuals\": {\"u\": "
+         << ",\n  \"converged\": " << (converged ? "true" : "false") << ",\n  \"stopped_early\": "
+         << (stopped ? "true" : "false") << ",\n  \"residuals\": {\"u\": "
          << json_number(status.normalised.u) << ", \"v\": " << json_number(status.normalised.v)
          << ", \"continuity\": " << json_number(status.normalised.continuity) << "},\n  \"residual_drop\": "
          << json_number(spec.iterations.residual_drop) << ",\n  \"wall_time_s\": " << json_number(elapsed)
          << ",\n  \"caution\": " << json_string(caution) << "\n}\n";
     write_text_atomically(dir / "summary.json", json.str());
     std::printf("wallrans: %s after %d iterations (%.1f s); results in %s\n",
-                converged ? "converged" : "NOT converged (iteration cap reached)", status.iteration, elapsed,
+                converged ? "converged" : stopped ? "stopped early (restart from the last checkpoint)"
+                                                  : "NOT converged (iteration cap reached)",
+                status.iteration, elapsed,
                 dir.string().c_str());
     std::printf("note: %s\n", caution);
   }
+  if (stopped) return exit_stopped_with_checkpoint;
   return converged ? 0 : 3;
 }
 

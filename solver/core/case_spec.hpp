@@ -99,6 +99,14 @@ struct OutputSpec {
   std::vector<double> profiles_at_x;  ///< x stations [m] of profile_<k>.csv (y, y+, U+, nu_t/nu)
 };
 
+/// Checkpoints (parallel HDF5) and stopping within a wall-clock budget.
+struct CheckpointSpec {
+  int every = 0;  ///< write a checkpoint every N iterations (0: only when stopped early)
+  int keep = 2;   ///< newest checkpoints kept in the run directory, >= 1
+  std::optional<std::string> restart_from;  ///< checkpoint file to continue from
+  std::optional<double> walltime;           ///< wall-clock budget [s]: checkpoint and stop before it ends
+};
+
 struct CaseSpec {
   std::string source_file;  ///< path of the case file ("" when built in code)
   std::string title = "case";
@@ -109,6 +117,7 @@ struct CaseSpec {
   TurbulenceSpec turbulence;
   IterationSpec iterations;
   OutputSpec output;
+  CheckpointSpec checkpoint;
 };
 
 const char* to_string(Side side);

@@ -434,6 +434,13 @@ void FlowSolver::assemble_and_solve_pressure_correction(IterationStatus& status)
   check_petsc(MatAssemblyEnd(a, MAT_FINAL_ASSEMBLY));
   status.absolute.continuity = grid_.global_sum(imbalance);
   if (null_space_) check_petsc(MatNullSpaceRemove(null_space_.get(), b_vec_.get()));
+  // A fresh pressure solver each iteration: algebraic multigrid otherwise carries internal state
+  // (eigenvalue-estimate vectors) from one set-up to the next, and a restarted run would differ
+  // from an uninterrupted one in the last bits. The set-up is rebuilt every iteration anyway,
+  // since the matrix changes.
+  check_petsc(KSPCreate(grid_.comm(), ksp_pc_.out()));
+  check_petsc(KSPSetOptionsPrefix(ksp_pc_.get(), "pressure_"));
+  check_petsc(KSPSetFromOptions(ksp_pc_.get()));
   check_petsc(KSPSetOperators(ksp_pc_.get(), a, a));
   std::fill(pc_.data().begin(), pc_.data().end(), 0.0);
   solve_linear(ksp_pc_.get(), b_vec_.get(), pc_, status.pressure_iterations, status.linear_solves_converged);

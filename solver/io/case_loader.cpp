@@ -338,6 +338,16 @@ OutputSpec read_output(const Value& value) {
   return output;
 }
 
+CheckpointSpec read_checkpoint(const Value& value) {
+  const Section section = value.section({"every", "keep", "restart_from", "walltime"});
+  CheckpointSpec checkpoint;
+  checkpoint.every = integer_or(section, "every", checkpoint.every, "an integer >= 0", [](int n) { return n >= 0; });
+  checkpoint.keep = integer_or(section, "keep", checkpoint.keep, "an integer >= 1", [](int n) { return n >= 1; });
+  if (section.has("restart_from")) checkpoint.restart_from = text_or(section, "restart_from", "", false);
+  if (const auto walltime = section.find("walltime")) checkpoint.walltime = walltime->number(positive_number, is_positive);
+  return checkpoint;
+}
+
 // Emitter helpers: numbers go out as their shortest exact text so the round trip is lossless.
 void put(YAML::Emitter& out, const char* key, double x) {
   out << YAML::Key << key << YAML::Value << number_text(x);
@@ -391,7 +401,7 @@ void put_boundaries(YAML::Emitter& out, const std::vector<BoundarySegmentSpec>& 
 CaseSpec parse_case_text(const std::string& text, const std::string& source_name) {
   const Value document = yaml_reader::parse_document(text, source_name);
   const Section top = document.section(
-      {"title", "flow", "grid", "boundaries", "periodic", "turbulence", "iterations", "output"});
+      {"title", "flow", "grid", "boundaries", "periodic", "turbulence", "iterations", "output", "checkpoint"});
   CaseSpec spec;
   spec.source_file = source_name;
   spec.title = text_or(top, "title", spec.title, false);
@@ -405,6 +415,7 @@ CaseSpec parse_case_text(const std::string& text, const std::string& source_name
   if (const auto turbulence = top.find("turbulence")) spec.turbulence = read_turbulence(*turbulence);
   if (const auto iterations = top.find("iterations")) spec.iterations = read_iterations(*iterations);
   if (const auto output = top.find("output")) spec.output = read_output(*output);
+  if (const auto checkpoint = top.find("checkpoint")) spec.checkpoint = read_checkpoint(*checkpoint);
   return spec;
 }
 
@@ -472,6 +483,13 @@ std::string resolved_case_yaml(const CaseSpec& spec) {
   put(out, "convection", name_of(iterations.convection));
   put(out, "report_every", iterations.report_every);
   put_text(out, "petsc_options", iterations.petsc_options);
+  out << YAML::EndMap;
+
+  out << YAML::Key << "checkpoint" << YAML::Value << YAML::BeginMap;
+  put(out, "every", spec.checkpoint.every);
+  put(out, "keep", spec.checkpoint.keep);
+  if (spec.checkpoint.restart_from) put_text(out, "restart_from", *spec.checkpoint.restart_from);
+  if (spec.checkpoint.walltime) put(out, "walltime", *spec.checkpoint.walltime);
   out << YAML::EndMap;
 
   out << YAML::Key << "output" << YAML::Value << YAML::BeginMap;

@@ -68,9 +68,11 @@ ProgramResult run_program(const fs::path& directory, const std::vector<std::stri
 }
 
 ProgramResult run_program_mpi(int ranks, const fs::path& directory, const std::vector<std::string>& arguments,
-                              const fs::path& capture_directory, const std::string& label) {
-  const std::string launcher =
-      quoted(WALLRANS_MPIEXEC) + " " + WALLRANS_MPIEXEC_NUMPROC_FLAG + " " + std::to_string(ranks) + " ";
+                              const fs::path& capture_directory, const std::string& label, const std::string& environment) {
+  // `environment` (e.g. "NAME=value") is exported to the launcher and so to every rank.
+  const std::string launcher = (environment.empty() ? std::string() : "env " + environment + " ") +
+                               quoted(WALLRANS_MPIEXEC) + " " + WALLRANS_MPIEXEC_NUMPROC_FLAG + " " +
+                               std::to_string(ranks) + " ";
   return run_command(launcher, directory, arguments, capture_directory, label);
 }
 

@@ -1,0 +1,211 @@
+// Checkpoint and restart end to end with the real program: bit-identical continuation,
+// restarts across rank counts, a kill in the middle of writing, SIGTERM, bad checkpoints.
+#include <gtest/gtest.h>
+#include <signal.h>
+#include <spawn.h>
+#include <sys/wait.h>
+#include <unistd.h>
+#include <vtkCellData.h>
+#include <vtkDataArray.h>
+#include <vtkNew.h>
+#include <vtkStructuredGrid.h>
+#include <vtkXMLPStructuredGridReader.h>
+
+#include <chrono>
+#include <cmath>
+#include <filesystem>
+#include <string>
+#include <thread>
+#include <vector>
+
+#include "io/csv_writer.hpp"
+#include "program_runner.hpp"
+
+namespace fs = std::filesystem;
+using namespace wallrans::test_support;
+
+extern char** environ;
+
+namespace {
+
+// The shipped SA channel at Re_tau 180 (4 x 128 cells; about 6000 iterations to converge).
+const std::string channel_case = std::string(WALLRANS_SOURCE_DIR) + "/configs/channel_sa_re180.yaml";
+
+std::vector<double> cell_array(const fs::path& pvts, const char* name) {
+  vtkNew<vtkXMLPStructuredGridReader> reader;
+  reader->SetFileName(pvts.string().c_str());
+  reader->Update();
+  vtkDataArray* array = reader->GetOutput()->GetCellData()->GetArray(name);
+  std::vector<double> values;
+  if (array == nullptr) return values;
+  for (vtkIdType k = 0; k < array->GetNumberOfTuples(); ++k)
+    for (int c = 0; c < array->GetNumberOfComponents(); ++c) values.push_back(array->GetComponent(k, c));
+  return values;
+}
+
+ProgramResult run_mpi(int ranks, const fs::path& dir, const std::vector<std::string>& args, const std::string& label,
+                      const std::string& environment = "") {
+  return run_program_mpi(ranks, dir, args, dir / "logs", label, environment);
+}
+
+}  // namespace
+
+TEST(Restart, StraightAndRestartedRunsAreBitIdentical) {
+  ScratchDirectory scratch("wallrans_restart_bits");
+  // 2N = 60 iterations straight (checkpoints every 30), and N = 30 + restart + 30, on 2 ranks.
+  auto straight = run_mpi(2, scratch.path(),
+                          {"run", channel_case, "--output-dir", "straight", "--max-iterations", "60", "--quiet"},
+                          "straight");
+  ASSERT_EQ(straight.exit_status, 3) << straight.err;  // iteration cap
+  auto first = run_mpi(2, scratch.path(), {"run", channel_case, "--output-dir", "split", "--max-iterations", "30", "--quiet"},
+                       "first");
+  ASSERT_EQ(first.exit_status, 3) << first.err;
+  ASSERT_TRUE(fs::exists(scratch.path() / "split" / "checkpoint_30.h5"));  // written at the end of a capped run
+  auto second = run_mpi(2, scratch.path(),
+                        {"run", channel_case, "--output-dir", "split", "--max-iterations", "60", "--quiet", "--restart",
+                         "split/checkpoint_30.h5"},
+                        "second");
+  ASSERT_EQ(second.exit_status, 3) << second.err;
+  for (const char* name : {"velocity", "pressure", "eddy_viscosity", "nu_tilde"}) {
+    const auto a = cell_array(scratch.path() / "straight" / "fields.pvts", name);
+    const auto b = cell_array(scratch.path() / "split" / "fields.pvts", name);
+    ASSERT_FALSE(a.empty()) << name;
+    ASSERT_EQ(a.size(), b.size()) << name;
+    size_t differing = 0;
+    for (size_t k = 0; k < a.size(); ++k) differing += a[k] != b[k] ? 1 : 0;  // to the last bit
+    EXPECT_EQ(differing, 0u) << name;
+  }
+  // The history of the restarted run continues the first part: iterations 1..60 once each.
+  const auto history = wallrans::read_csv((scratch.path() / "split" / "history.csv").string());
+  ASSERT_EQ(history.rows.size(), 60u);
+  for (size_t k = 0; k < history.rows.size(); ++k) EXPECT_EQ(history.rows[k][0], double(k + 1));
+}
+
+TEST(Restart, AcrossRankCountsConvergesToTheSameSolution) {
+  ScratchDirectory scratch("wallrans_restart_ranks");
+  auto reference = run_mpi(1, scratch.path(), {"run", channel_case, "--output-dir", "reference", "--quiet"}, "reference");
+  ASSERT_EQ(reference.exit_status, 0) << reference.err;
+  for (const auto& [from, to] : {std::pair{2, 1}, std::pair{1, 2}}) {
+    const std::string dir = "from" + std::to_string(from) + "to" + std::to_string(to);
+    auto part = run_mpi(from, scratch.path(), {"run", channel_case, "--output-dir", dir, "--max-iterations", "300", "--quiet"},
+                        dir + "_a");
+    ASSERT_EQ(part.exit_status, 3) << part.err;
+    auto rest = run_mpi(to, scratch.path(),
+                        {"run", channel_case, "--output-dir", dir, "--quiet", "--restart", dir + "/checkpoint_300.h5"},
+                        dir + "_b");
+    ASSERT_EQ(rest.exit_status, 0) << rest.err;
+    const auto a = cell_array(scratch.path() / "reference" / "fields.pvts", "velocity");
+    const auto b = cell_array(scratch.path() / dir / "fields.pvts", "velocity");
+    ASSERT_EQ(a.size(), b.size());
+    double worst = 0;
+    for (size_t k = 0; k < a.size(); ++k) worst = std::max(worst, std::abs(a[k] - b[k]));
+    // Both converged to the case's residual drop 1e-8; velocities ~20 u_tau agree to 1e-5 u_tau.
+    EXPECT_LT(worst, 1e-5) << dir;
+  }
+}
+
+TEST(Restart, KillDuringCheckpointLeavesThePreviousOneIntact) {
+  ScratchDirectory scratch("wallrans_restart_kill");
+  // Checkpoints every 20 iterations; the test-only switch kills every rank after 3 datasets of
+  // the checkpoint of iteration 40.
+  write_text(scratch.path() / "every20.yaml", read_text(channel_case) + "checkpoint: {every: 20, keep: 5}\n");
+  auto killed = run_mpi(2, scratch.path(),
+                        {"run", "every20.yaml", "--output-dir", "run", "--max-iterations", "100", "--quiet"}, "killed",
+                        "WALLRANS_TEST_KILL_IN_CHECKPOINT=40:3");
+  EXPECT_NE(killed.exit_status, 0);
+  EXPECT_NE(killed.exit_status, 3);
+  EXPECT_TRUE(fs::exists(scratch.path() / "run" / "checkpoint_20.h5"));
+  EXPECT_FALSE(fs::exists(scratch.path() / "run" / "checkpoint_40.h5"));
+  auto resumed = run_mpi(2, scratch.path(),
+                         {"run", "every20.yaml", "--output-dir", "run", "--max-iterations", "25", "--quiet", "--restart",
+                          "run/checkpoint_20.h5"},
+                         "resumed");
+  EXPECT_EQ(resumed.exit_status, 3) << resumed.err;
+}
+
+TEST(Restart, SigtermWritesARestartableCheckpointAndExitsFive) {
+  ScratchDirectory scratch("wallrans_restart_sigterm");
+  const fs::path out = scratch.path() / "run";
+  std::vector<std::string> args = {WALLRANS_PROGRAM, "run", channel_case, "--output-dir", out.string(), "--quiet"};
+  std::vector<char*> argv;
+  for (auto& a : args) argv.push_back(a.data());
+  argv.push_back(nullptr);
+  pid_t pid = 0;
+  ASSERT_EQ(posix_spawn(&pid, WALLRANS_PROGRAM, nullptr, nullptr, argv.data(), environ), 0);
+  // Wait until the run is well under way (history rows appear), then send what a scheduler sends.
+  const auto deadline = std::chrono::steady_clock::now() + std::chrono::seconds(60);
+  while (std::chrono::steady_clock::now() < deadline) {
+    if (fs::exists(out / "history.csv") && lines_of(read_text(out / "history.csv")).size() > 50) break;
+    std::this_thread::sleep_for(std::chrono::milliseconds(20));
+  }
+  ASSERT_EQ(kill(pid, SIGTERM), 0);
+  int status = 0;
+  ASSERT_EQ(waitpid(pid, &status, 0), pid);
+  ASSERT_TRUE(WIFEXITED(status));
+  EXPECT_EQ(WEXITSTATUS(status), 5);  // documented: stopped with a checkpoint
+  int checkpoints = 0;
+  std::string newest;
+  for (const auto& entry : fs::directory_iterator(out)) {
+    if (entry.path().extension() == ".h5") {
+      ++checkpoints;
+      newest = entry.path().string();
+    }
+  }
+  ASSERT_EQ(checkpoints, 1);
+  EXPECT_NE(read_text(out / "summary.json").find("\"stopped_early\": true"), std::string::npos);
+  auto resumed = run_program(scratch.path(), {"run", channel_case, "--output-dir", "run", "--quiet", "--restart", newest,
+                                              "--max-iterations", "80"},
+                             scratch.path() / "logs", "resumed");
+  EXPECT_TRUE(resumed.exit_status == 3 || resumed.exit_status == 0) << resumed.err;
+}
+
+TEST(Restart, BadCheckpointsGiveOneLineAndChangeNothing) {
+  ScratchDirectory scratch("wallrans_restart_bad");
+  auto good = run_program(scratch.path(), {"run", channel_case, "--output-dir", "run", "--max-iterations", "10", "--quiet"},
+                          scratch.path() / "logs", "good");
+  ASSERT_EQ(good.exit_status, 3) << good.err;
+  const fs::path checkpoint = scratch.path() / "run" / "checkpoint_10.h5";
+  ASSERT_TRUE(fs::exists(checkpoint));
+  // Wrong file type, truncated file, other grid size, other model: each its own message.
+  write_text(scratch.path() / "text.h5", "not an HDF5 file\n");
+  const std::string bytes = read_text(checkpoint);
+  write_text(scratch.path() / "truncated.h5", bytes.substr(0, bytes.size() / 2));
+  write_text(scratch.path() / "coarse.yaml",
+             read_text(channel_case).replace(read_text(channel_case).find("cells: [4, 128]"), 15, "cells: [4, 64] "));
+  std::string laminar = read_text(channel_case);
+  laminar.replace(laminar.find("model: spalart_allmaras"), 23, "model: mixing_length  ");
+  laminar.replace(laminar.find("variant: negative"), 17, "outer_length: 1.0");
+  write_text(scratch.path() / "other_model.yaml", laminar);
+  struct Bad {
+    std::string case_file, restart, mention;
+  };
+  const std::vector<Bad> bad = {{channel_case, "text.h5", "expected a wallrans checkpoint"},
+                                {channel_case, "truncated.h5", "truncated.h5"},
+                                {"coarse.yaml", "run/checkpoint_10.h5", "grid size"},
+                                {"other_model.yaml", "run/checkpoint_10.h5", "turbulence model"},
+                                {channel_case, "missing.h5", "missing.h5"}};
+  const auto before = snapshot(scratch.path() / "run");
+  for (const auto& b : bad) {
+    auto result = run_program(scratch.path(), {"run", b.case_file, "--output-dir", "run", "--quiet", "--restart", b.restart},
+                              scratch.path() / "logs", "bad");
+    EXPECT_EQ(result.exit_status, 2) << b.restart << ": " << result.err;
+    EXPECT_EQ(lines_of(result.err).size(), 1u) << result.err;
+    EXPECT_NE(result.err.find(b.mention), std::string::npos) << result.err;
+    EXPECT_EQ(snapshot(scratch.path() / "run"), before) << "the run directory must stay untouched";
+  }
+}
+
+TEST(Restart, CheckpointOpensWithStandardTools) {
+  ScratchDirectory scratch("wallrans_restart_tools");
+  auto run = run_program(scratch.path(), {"run", channel_case, "--output-dir", "run", "--max-iterations", "5", "--quiet"},
+                         scratch.path() / "logs", "run");
+  ASSERT_EQ(run.exit_status, 3) << run.err;
+  const std::string h5 = (scratch.path() / "run" / "checkpoint_5.h5").string();
+  EXPECT_EQ(std::system(("h5ls -r '" + h5 + "' > /dev/null").c_str()), 0);
+  EXPECT_EQ(std::system(("h5dump -A '" + h5 + "' > /dev/null").c_str()), 0);
+  const std::string python = "/usr/bin/python3 -c \"import h5py,sys; f=h5py.File(sys.argv[1],'r'); "
+                             "assert f['fields/velocity_x'].shape == (128, 4); assert f['fields/model_nu_tilde'].shape == (128, 4)\" '" +
+                             h5 + "'";
+  EXPECT_EQ(std::system(python.c_str()), 0);
+  EXPECT_TRUE(fs::exists(scratch.path() / "run" / "checkpoint_5.xmf"));
+}
