@@ -176,12 +176,16 @@ TEST(Restart, BadCheckpointsGiveOneLineAndChangeNothing) {
   laminar.replace(laminar.find("model: spalart_allmaras"), 23, "model: mixing_length  ");
   laminar.replace(laminar.find("variant: negative"), 17, "outer_length: 1.0");
   write_text(scratch.path() / "other_model.yaml", laminar);
+  std::string stretched = read_text(channel_case);
+  stretched.replace(stretched.find("first_cell_height: "), 19, "first_cell_height: 1.5e-3 #");
+  write_text(scratch.path() / "stretched.yaml", stretched);  // same size, other nodes
   struct Bad {
     std::string case_file, restart, mention;
   };
   const std::vector<Bad> bad = {{channel_case, "text.h5", "expected a wallrans checkpoint"},
                                 {channel_case, "truncated.h5", "truncated.h5"},
                                 {"coarse.yaml", "run/checkpoint_10.h5", "grid size"},
+                                {"stretched.yaml", "run/checkpoint_10.h5", "grid fingerprint"},
                                 {"other_model.yaml", "run/checkpoint_10.h5", "turbulence model"},
                                 {channel_case, "missing.h5", "missing.h5"}};
   const auto before = snapshot(scratch.path() / "run");
@@ -208,4 +212,16 @@ TEST(Restart, CheckpointOpensWithStandardTools) {
                              h5 + "'";
   EXPECT_EQ(std::system(python.c_str()), 0);
   EXPECT_TRUE(fs::exists(scratch.path() / "run" / "checkpoint_5.xmf"));
+}
+
+TEST(Restart, WallClockBudgetStopsWithACheckpoint) {
+  ScratchDirectory scratch("wallrans_restart_walltime");
+  // The channel needs several seconds to converge; a 2 s budget stops it early.
+  auto run = run_program(scratch.path(), {"run", channel_case, "--output-dir", "run", "--quiet", "--walltime", "2"},
+                         scratch.path() / "logs", "budget");
+  EXPECT_EQ(run.exit_status, 5) << run.out << run.err;
+  EXPECT_NE(run.out.find("wall-clock budget"), std::string::npos) << run.out;
+  bool found = false;
+  for (const auto& entry : fs::directory_iterator(scratch.path() / "run")) found |= entry.path().extension() == ".h5";
+  EXPECT_TRUE(found);
 }
