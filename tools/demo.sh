@@ -6,7 +6,7 @@
 set -euo pipefail
 
 # The case to demonstrate (a path relative to the repository root).
-DEMO_CASE="configs/cavity_re1000.yaml"
+DEMO_CASE="configs/plate_sa.yaml"   # turbulent flat plate, Spalart-Allmaras, Re_L = 1e7
 DEMO_OUT="out/demo"
 DEMO_RANKS=2
 
@@ -28,14 +28,19 @@ mpirun -np "${DEMO_RANKS}" build/wallrans run "${DEMO_CASE}" --output-dir "${DEM
 cat <<MSG
 
 demo: results are in ${root}/${DEMO_OUT}/
-  fields.pvts, fields_<rank>.vts  cell data: velocity, pressure, eddy_viscosity, cell_volume, cell_index
-  history.csv                     residuals and linear-solver iterations per outer iteration
-  wall.csv                        x, y, Cf, Cp, wall shear stress along the no-slip walls
+  fields.pvts, fields_<rank>.vts  cell data: velocity, pressure, eddy_viscosity, nu_tilde,
+                                  wall_distance, y_plus, cell_volume, cell_index
+  history.csv                     residuals (incl. the model's) and linear-solver iterations
+  wall.csv                        x, y, Cf, Cp, wall shear stress, first-cell y+ along the plate
+  profile_<k>.csv                 y, y+, U+, nu_t/nu at the stations x = 0.25, 0.5, 0.9 m
+  checkpoint_<N>.h5 / .xmf        restart file (parallel HDF5) and its XDMF description
   summary.json                    final residuals, convergence state, wall time
   case.resolved.yaml              the case with every default written out (itself a valid case)
 
 To view the fields, open ${DEMO_OUT}/fields.pvts (the index of the per-rank pieces) in any VTK
-viewer, e.g. 'paraview ${DEMO_OUT}/fields.pvts', and colour by 'velocity' or 'pressure'.
+viewer, e.g. 'paraview ${DEMO_OUT}/fields.pvts', and colour by 'velocity', 'eddy_viscosity' or 'y_plus'.
+RANS results are model-dependent: validate them for your case and defer to applicable codes and
+licensed engineering practice.
 From Python (Debian's python3-vtk9):
   /usr/bin/python3 -c "from vtkmodules.vtkIOXML import vtkXMLPStructuredGridReader as R; \\
 r = R(); r.SetFileName('${DEMO_OUT}/fields.pvts'); r.Update(); print(r.GetOutput().GetNumberOfCells(), 'cells')"
