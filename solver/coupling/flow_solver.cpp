@@ -383,18 +383,20 @@ void FlowSolver::predict_fluxes() {
   flux_n_.exchange();
 }
 
+double FlowSolver::pressure_coefficient(int il, int jl, int ir, int jr, const FaceGeometry& face) const {
+  // A_f = d_f |S|^2 / (S . d): the face-flux response to the p' difference across the face.
+  const Vec2 d = grid_.centre(ir, jr) - grid_.centre(il, jl);
+  const double wl = dot(grid_.centre(ir, jr) - face.centre, d) / dot(d, d);
+  const double dc = wl * d_corr_(il, jl) + (1.0 - wl) * d_corr_(ir, jr);
+  return dc * dot(face.area, face.area) / dot(face.area, d);
+}
+
 void FlowSolver::assemble_and_solve_pressure_correction(IterationStatus& status) {
   Mat a = a_pc_.get();
   check_petsc(MatZeroEntries(a));
   PetscScalar** b = nullptr;
   check_petsc(DMDAVecGetArray(grid_.dm(), b_vec_.get(), &b));
   double imbalance = 0.0;
-  auto coefficient = [&](int il, int jl, int ir, int jr, const FaceGeometry& face) {
-    const Vec2 d = grid_.centre(ir, jr) - grid_.centre(il, jl);
-    const double wl = dot(grid_.centre(ir, jr) - face.centre, d) / dot(d, d);
-    const double dc = wl * d_corr_(il, jl) + (1.0 - wl) * d_corr_(ir, jr);
-    return dc * dot(face.area, face.area) / dot(face.area, d);
-  };
   for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
     for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
       MatStencil row{0, j, i, 0};
@@ -409,10 +411,10 @@ void FlowSolver::assemble_and_solve_pressure_correction(IterationStatus& status)
         cols[n] = MatStencil{0, jn, in, 0};
         vals[n++] = -coef;
       };
-      if (grid_.has_east(i)) add(i + 1, j, coefficient(i, j, i + 1, j, grid_.east_face(i, j)));
-      if (grid_.has_west(i)) add(i - 1, j, coefficient(i - 1, j, i, j, grid_.east_face(i - 1, j)));
-      if (grid_.has_north(j)) add(i, j + 1, coefficient(i, j, i, j + 1, grid_.north_face(i, j)));
-      if (grid_.has_south(j)) add(i, j - 1, coefficient(i, j - 1, i, j, grid_.north_face(i, j - 1)));
+      if (grid_.has_east(i)) add(i + 1, j, pressure_coefficient(i, j, i + 1, j, grid_.east_face(i, j)));
+      if (grid_.has_west(i)) add(i - 1, j, pressure_coefficient(i - 1, j, i, j, grid_.east_face(i - 1, j)));
+      if (grid_.has_north(j)) add(i, j + 1, pressure_coefficient(i, j, i, j + 1, grid_.north_face(i, j)));
+      if (grid_.has_south(j)) add(i, j - 1, pressure_coefficient(i, j - 1, i, j, grid_.north_face(i, j - 1)));
       net_out += flux_e_(i, j) + flux_n_(i, j);
       // West/south boundary fluxes are stored outward (out of the domain and of this cell).
       net_out += (i == 0 && !grid_.periodic_x()) ? flux_w_[j] : -flux_e_(i - 1, j);
@@ -449,18 +451,12 @@ void FlowSolver::assemble_and_solve_pressure_correction(IterationStatus& status)
 
 void FlowSolver::correct() {
   // Flux corrections F' = -A_f (p'_R - p'_L) keep every cell's mass balance to solver tolerance.
-  auto coefficient = [&](int il, int jl, int ir, int jr, const FaceGeometry& face) {
-    const Vec2 d = grid_.centre(ir, jr) - grid_.centre(il, jl);
-    const double wl = dot(grid_.centre(ir, jr) - face.centre, d) / dot(d, d);
-    const double dc = wl * d_corr_(il, jl) + (1.0 - wl) * d_corr_(ir, jr);
-    return dc * dot(face.area, face.area) / dot(face.area, d);
-  };
   for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
     for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
       if (grid_.has_east(i))
-        flux_e_(i, j) -= coefficient(i, j, i + 1, j, grid_.east_face(i, j)) * (pc_(i + 1, j) - pc_(i, j));
+        flux_e_(i, j) -= pressure_coefficient(i, j, i + 1, j, grid_.east_face(i, j)) * (pc_(i + 1, j) - pc_(i, j));
       if (grid_.has_north(j))
-        flux_n_(i, j) -= coefficient(i, j, i, j + 1, grid_.north_face(i, j)) * (pc_(i, j + 1) - pc_(i, j));
+        flux_n_(i, j) -= pressure_coefficient(i, j, i, j + 1, grid_.north_face(i, j)) * (pc_(i, j + 1) - pc_(i, j));
     }
   }
   for (const auto& f : bfaces_) {

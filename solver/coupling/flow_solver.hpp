@@ -101,6 +101,7 @@ class FlowSolver {
   void assemble_and_solve_pressure_correction(IterationStatus& status);
   void correct();
   FaceTerms interior_face_terms(int il, int jl, int ir, int jr, const FaceGeometry& face, double flux) const;
+  double pressure_coefficient(int il, int jl, int ir, int jr, const FaceGeometry& face) const;
   double interior_flux(int il, int jl, int ir, int jr, const FaceGeometry& face, double flux_old) const;
   double normal_derivative(const Field& phi, const VectorField& grad, double phi_b, const BoundaryFace& face) const;
   double& boundary_flux_ref(const BoundaryFace& face);
