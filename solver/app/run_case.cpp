@@ -12,6 +12,7 @@
 #include <memory>
 #include <sstream>
 
+#include "core/atomic_file.hpp"
 #include "core/error.hpp"
 #include "coupling/flow_solver.hpp"
 #include "grid/boundary.hpp"
@@ -71,15 +72,6 @@ Setup build(MPI_Comm comm, const std::string& case_file) {
   return s;
 }
 
-void write_text_atomically(const std::filesystem::path& path, const std::string& text) {
-  const auto temp = path.string() + ".tmp";
-  {
-    std::ofstream out(temp);
-    out << text;
-    if (!out.good()) throw Error("cannot write " + temp);
-  }
-  std::filesystem::rename(temp, path);
-}
 
 std::string json_number(double x) {
   if (!std::isfinite(x)) return "null";
@@ -206,7 +198,7 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
 
   std::unique_ptr<CsvWriter> history;
   if (rank == 0) {
-    write_text_atomically(dir / "case.resolved.yaml", case_text);
+    write_file_atomically(dir / "case.resolved.yaml", case_text, "run directory");
     // On a restart, keep the history rows up to the restart iteration.
     std::vector<std::vector<double>> earlier;
     if (first_iteration > 0 && std::filesystem::exists(dir / "history.csv")) {
@@ -329,7 +321,7 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
          << ", \"continuity\": " << json_number(status.normalised.continuity) << "},\n  \"residual_drop\": "
          << json_number(spec.iterations.residual_drop) << ",\n  \"wall_time_s\": " << json_number(elapsed)
          << ",\n  \"caution\": " << json_string(caution) << "\n}\n";
-    write_text_atomically(dir / "summary.json", json.str());
+    write_file_atomically(dir / "summary.json", json.str(), "run directory");
     std::printf("wallrans: %s after %d iterations (%.1f s); results in %s\n",
                 converged ? "converged" : stopped ? "stopped early (restart from the last checkpoint)"
                                                   : "NOT converged (iteration cap reached)",

@@ -15,6 +15,7 @@
 #include <utility>
 #include <vector>
 
+#include "core/atomic_file.hpp"
 #include "core/error.hpp"
 #include "io/checkpoint.hpp"
 
@@ -70,39 +71,6 @@ std::string escape_xml(const std::string& text) {
   return out;
 }
 
-struct CloseFile {
-  void operator()(std::FILE* file) const noexcept { std::fclose(file); }
-};
-
-// Local. Writes `bytes` to "<path>.tmp", syncs it and renames it to `path`, so a crash leaves
-// either the old or the new complete file.
-void write_file_atomically(const fs::path& path, const std::string& bytes) {
-  fs::path temporary = path;
-  temporary += ".tmp";
-  std::unique_ptr<std::FILE, CloseFile> file(std::fopen(temporary.c_str(), "wb"));
-  if (!file) {
-    throw Error("checkpoint xdmf: cannot create '" + temporary.string() +
-                "': " + std::generic_category().message(errno));
-  }
-  const bool written = std::fwrite(bytes.data(), 1, bytes.size(), file.get()) == bytes.size() &&
-                       std::fflush(file.get()) == 0 && ::fsync(fileno(file.get())) == 0;
-  int error = errno;
-  const bool closed = std::fclose(file.release()) == 0;
-  if (written && !closed) error = errno;
-  std::error_code ignored;
-  if (!written || !closed) {
-    fs::remove(temporary, ignored);
-    throw Error("checkpoint xdmf: cannot write '" + temporary.string() +
-                "': " + std::generic_category().message(error));
-  }
-  std::error_code renamed;
-  fs::rename(temporary, path, renamed);
-  if (renamed) {
-    fs::remove(temporary, ignored);
-    throw Error("checkpoint xdmf: cannot rename '" + temporary.string() + "' to '" + path.string() +
-                "': " + renamed.message());
-  }
-}
 
 // XDMF 3 "DataItem" of doubles stored in the HDF5 file, dimensions slowest first.
 std::string data_item(const std::string& h5_file_name, const std::string& dataset, int n_slow, int n_fast) {
@@ -172,7 +140,7 @@ void write_checkpoint_xdmf(const std::string& xdmf_path, const std::string& h5_f
   out << "    </Grid>\n"
       << "  </Domain>\n"
       << "</Xdmf>\n";
-  write_file_atomically(xdmf_path, out.str());
+  write_file_atomically(xdmf_path, out.str(), "checkpoint xdmf");
 }
 
 void prune_checkpoints(const std::string& directory, const std::string& prefix, int keep) {

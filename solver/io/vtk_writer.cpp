@@ -21,6 +21,7 @@
 #include <sstream>
 #include <system_error>
 
+#include "core/atomic_file.hpp"
 #include "core/error.hpp"
 
 namespace wallrans {
@@ -95,40 +96,6 @@ void check_request(const Grid& grid, const std::vector<NamedScalar>& scalars,
   }
 }
 
-struct CloseFile {
-  void operator()(std::FILE* file) const noexcept { std::fclose(file); }
-};
-
-// Local. Writes `bytes` to "<path>.tmp", forces it to disk, then renames it to `path`. The rename
-// replaces the old file atomically on POSIX file systems, so a reader (or a crash) sees either the
-// previous complete file or the new complete file, never a torn one.
-void write_file_atomically(const fs::path& path, const std::string& bytes) {
-  fs::path temporary = path;
-  temporary += ".tmp";
-  std::unique_ptr<std::FILE, CloseFile> file(std::fopen(temporary.c_str(), "wb"));
-  if (!file) {
-    throw Error("vtk output: cannot create '" + temporary.string() +
-                "': " + std::generic_category().message(errno));
-  }
-  const bool written = std::fwrite(bytes.data(), 1, bytes.size(), file.get()) == bytes.size() &&
-                       std::fflush(file.get()) == 0 && ::fsync(fileno(file.get())) == 0;
-  int error = errno;
-  const bool closed = std::fclose(file.release()) == 0;
-  if (written && !closed) error = errno;
-  std::error_code ignored;
-  if (!written || !closed) {
-    fs::remove(temporary, ignored);
-    throw Error("vtk output: cannot write '" + temporary.string() +
-                "': " + std::generic_category().message(error));
-  }
-  std::error_code renamed;
-  fs::rename(temporary, path, renamed);
-  if (renamed) {
-    fs::remove(temporary, ignored);
-    throw Error("vtk output: cannot rename '" + temporary.string() + "' to '" + path.string() +
-                "': " + renamed.message());
-  }
-}
 
 // Local. Creates `directory` (and parents) unless it already is a directory.
 void make_directory(const fs::path& directory) {
@@ -278,7 +245,7 @@ std::string write_vtk_fields(const Grid& grid, const std::vector<NamedScalar>& s
   agree(comm, directory_error, "creating the output directory");
   agree(comm, attempt([&] {
           write_file_atomically(folder / piece_file_name(basename, rank),
-                                piece_document(grid, scalars, vectors));
+                                piece_document(grid, scalars, vectors), "vtk output");
         }),
         "writing its piece");
 
@@ -291,7 +258,7 @@ std::string write_vtk_fields(const Grid& grid, const std::vector<NamedScalar>& s
   std::string index_error;
   if (rank == 0) {
     index_error = attempt([&] {
-      write_file_atomically(index_path, index_document(grid, scalars, vectors, basename, extents));
+      write_file_atomically(index_path, index_document(grid, scalars, vectors, basename, extents), "vtk output");
     });
   }
   agree(comm, index_error, "writing the index file");
