@@ -29,8 +29,8 @@ std::vector<double> uniform(int n, double extent) {
 std::vector<double> one_sided_spacing(int n, double extent, double first_spacing, const char* what) {
   if (!(first_spacing > 0.0) || first_spacing > extent / n * (1.0 + 1e-12)) {
     char text[160];
-    std::snprintf(text, sizeof text, "expected a value in (0, %g] (extent %g m / %d cells), got %g", extent / n,
-                  extent, n, first_spacing);
+    std::snprintf(text, sizeof text, "expected a value in (0, %g] (extent %g m / %d cells), got %g",
+                  extent / n, extent, n, first_spacing);
     throw InputError("key '" + std::string(what) + "': " + text);
   }
   // Growth ratio r >= 1 with h (r^n - 1)/(r - 1) = extent, by bisection (monotone in r).
@@ -51,8 +51,10 @@ std::vector<double> one_sided_spacing(int n, double extent, double first_spacing
 
 std::vector<double> two_sided_spacing(int n, double extent, double first_spacing, const char* what) {
   if (n % 2 != 0) {
-    throw InputError("key 'grid.cells': expected an even cell count in the direction clustered at both walls "
-                     "(with " + std::string(what) + "), got " + std::to_string(n));
+    throw InputError(
+        "key 'grid.cells': expected an even cell count in the direction clustered at both walls "
+        "(with " +
+        std::string(what) + "), got " + std::to_string(n));
   }
   if (!(first_spacing > 0.0) || first_spacing > extent / n * (1.0 + 1e-12)) {
     one_sided_spacing(n, extent, first_spacing, what);  // throws with the whole-side figures
@@ -93,8 +95,10 @@ NodeCoordinates generate_nodes(const GridSpec& spec) {
       const int n_run = spec.run_up_cells;
       const int n_plate = nx - n_run;
       if (n_run < 0 || n_plate < 1 || (spec.run_up > 0.0) != (n_run > 0)) {
-        throw InputError("key 'grid.run_up_cells': expected 1 <= run_up_cells < cells_x when run_up > 0 "
-                         "(and 0 when run_up = 0), got " + std::to_string(n_run));
+        throw InputError(
+            "key 'grid.run_up_cells': expected 1 <= run_up_cells < cells_x when run_up > 0 "
+            "(and 0 when run_up = 0), got " +
+            std::to_string(n_run));
       }
       const double le = spec.leading_edge_spacing.value_or(spec.length / n_plate);
       const auto plate = one_sided_spacing(n_plate, spec.length, le, "grid.leading_edge_spacing");

@@ -21,8 +21,11 @@ BbDamping bb_damping(double yplus) {
 BaldwinBarth::BaldwinBarth(const CaseSpec& spec, const Grid& grid, const BoundaryMap& boundaries)
     : WallBoundedModel(spec, grid, boundaries),
       transport_(grid, boundaries, spec.turbulence.convection, "turbulence_"),
-      r_(grid, spec.turbulence.freestream_viscosity_ratio * spec.flow.kinematic_viscosity), gamma_(grid), su_(grid),
-      sp_(grid), grad_nut_(grid) {}
+      r_(grid, spec.turbulence.freestream_viscosity_ratio * spec.flow.kinematic_viscosity),
+      gamma_(grid),
+      su_(grid),
+      sp_(grid),
+      grad_nut_(grid) {}
 
 void BaldwinBarth::update(const MeanFlowView& flow) {
   using C = BbConstants;

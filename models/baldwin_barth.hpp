@@ -26,8 +26,14 @@ class BaldwinBarth final : public WallBoundedModel {
   std::vector<ModelResidual> residuals() const override { return {{"nu_rt", residual_}}; }
   std::vector<std::pair<std::string, const Field*>> output_fields() const override;
   std::vector<std::pair<std::string, Field*>> restart_state() override {
-    return {{"nu_rt", &r_}, {"eddy_viscosity", &nut_}, {"nu_rt" "_gradient_x", &transport_.gradient().x},
-            {"nu_rt" "_gradient_y", &transport_.gradient().y}};
+    return {{"nu_rt", &r_},
+            {"eddy_viscosity", &nut_},
+            {"nu_rt"
+             "_gradient_x",
+             &transport_.gradient().x},
+            {"nu_rt"
+             "_gradient_y",
+             &transport_.gradient().y}};
   }
 
  private:

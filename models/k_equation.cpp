@@ -18,14 +18,19 @@ KClosure k_closure(double k, double d, double nu, double strain, bool structure)
   if (structure && strain > 0.0) nut = std::min(C::a1 * kk / strain, nut);
   // sqrt(k)/l_eps with l_eps = c_l d (1 - exp(-Re_d/A_eps)); its limit for k -> 0 is 2 nu / d^2.
   const double x = re_d / C::a_eps;
-  const double dissipation = x > 1e-8 ? sqrt_k / (C::cl * d * -std::expm1(-x)) : C::a_eps * nu / (C::cl * d * d);
+  const double dissipation =
+      x > 1e-8 ? sqrt_k / (C::cl * d * -std::expm1(-x)) : C::a_eps * nu / (C::cl * d * d);
   return {nut, dissipation};
 }
 
 KEquation::KEquation(const CaseSpec& spec, const Grid& grid, const BoundaryMap& boundaries)
     : WallBoundedModel(spec, grid, boundaries),
-      transport_(grid, boundaries, spec.turbulence.convection, "turbulence_"), k_(grid), gamma_(grid), su_(grid),
-      sp_(grid), structure_(spec.turbulence.variant == "structure") {
+      transport_(grid, boundaries, spec.turbulence.convection, "turbulence_"),
+      k_(grid),
+      gamma_(grid),
+      su_(grid),
+      sp_(grid),
+      structure_(spec.turbulence.variant == "structure") {
   for (double& v : k_.data()) v = freestream_k();
 }
 

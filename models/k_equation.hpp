@@ -28,8 +28,14 @@ class KEquation final : public WallBoundedModel {
   std::vector<ModelResidual> residuals() const override { return {{"k", residual_}}; }
   std::vector<std::pair<std::string, const Field*>> output_fields() const override;
   std::vector<std::pair<std::string, Field*>> restart_state() override {
-    return {{"k", &k_}, {"eddy_viscosity", &nut_}, {"k" "_gradient_x", &transport_.gradient().x},
-            {"k" "_gradient_y", &transport_.gradient().y}};
+    return {{"k", &k_},
+            {"eddy_viscosity", &nut_},
+            {"k"
+             "_gradient_x",
+             &transport_.gradient().x},
+            {"k"
+             "_gradient_y",
+             &transport_.gradient().y}};
   }
 
  private:

@@ -17,9 +17,11 @@ std::unique_ptr<TurbulenceModel> make_turbulence_model(const CaseSpec& spec, con
   if (model == "k_equation") return std::make_unique<KEquation>(spec, grid, boundaries);
   if (model == "mixing_length") return std::make_unique<MixingLength>(spec, grid, boundaries);
   const std::string where = spec.source_file.empty() ? std::string("case") : spec.source_file;
-  throw InputError(where + ":" + std::to_string(spec.turbulence.line) +
-                   ": key 'turbulence.model': expected laminar, mixing_length, k_equation, spalart_allmaras or "
-                   "baldwin_barth, got " + model);
+  throw InputError(
+      where + ":" + std::to_string(spec.turbulence.line) +
+      ": key 'turbulence.model': expected laminar, mixing_length, k_equation, spalart_allmaras or "
+      "baldwin_barth, got " +
+      model);
 }
 
 }  // namespace wallrans

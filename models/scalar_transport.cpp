@@ -22,7 +22,11 @@ bool is_dirichlet(BoundaryKind kind, double outward_flux) {
 
 ScalarTransport::ScalarTransport(const Grid& grid, const BoundaryMap& boundaries, ConvectionScheme scheme,
                                  const std::string& prefix)
-    : grid_(grid), boundaries_(boundaries), scheme_(scheme), faces_(owned_boundary_faces(grid)), phi_b_(grid),
+    : grid_(grid),
+      boundaries_(boundaries),
+      scheme_(scheme),
+      faces_(owned_boundary_faces(grid)),
+      phi_b_(grid),
       grad_(grid) {
   lsq_ = std::make_unique<LeastSquaresGradient>(grid, faces_, [](const BoundaryFace&) { return true; });
   check_petsc(DMCreateMatrix(grid.dm(), matrix_.out()));
@@ -43,14 +47,18 @@ void ScalarTransport::boundary_values(const MeanFlowView& flow, const Field& phi
     const BoundaryFace& f = flow.boundary_faces[k];
     const BoundaryKind kind = boundaries_.spec(f.side, f.index).kind;
     double value = phi(f.i, f.j);
-    if (kind == BoundaryKind::wall) value = wall_value;
-    else if (is_dirichlet(kind, flow.boundary_flux[k])) value = freestream;
-    if (boundary_function_ && (kind == BoundaryKind::wall || kind == BoundaryKind::inflow)) value = boundary_function_(f.centre);
+    if (kind == BoundaryKind::wall)
+      value = wall_value;
+    else if (is_dirichlet(kind, flow.boundary_flux[k]))
+      value = freestream;
+    if (boundary_function_ && (kind == BoundaryKind::wall || kind == BoundaryKind::inflow))
+      value = boundary_function_(f.centre);
     phi_b_.at(f) = value;
   }
 }
 
-void ScalarTransport::gradient_of(const Field& phi, double wall_value, const MeanFlowView& flow, VectorField& out) {
+void ScalarTransport::gradient_of(const Field& phi, double wall_value, const MeanFlowView& flow,
+                                  VectorField& out) {
   boundary_function_ = nullptr;
   boundary_values(flow, phi, wall_value, 0.0);
   lsq_->compute(phi, phi_b_, out);
@@ -91,12 +99,13 @@ double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
     const double gamma_f = g.wl * gamma(il, jl) + (1.0 - g.wl) * gamma(ir, jr);
     const double diffusion = gamma_f * g.k;
     const Vec2 gl = grad_(il, jl), gr = grad_(ir, jr);
-    const double phi_f = face_value(scheme_, flux, phi(il, jl), phi(ir, jr), gl, gr, xl, xr, geom.centre, g.wl, g.skew);
+    const double phi_f =
+        face_value(scheme_, flux, phi(il, jl), phi(ir, jr), gl, gr, xl, xr, geom.centre, g.wl, g.skew);
     const double phi_upwind = flux >= 0.0 ? phi(il, jl) : phi(ir, jr);
     const double explicit_left =
         gamma_f * dot(g.cross, g.wl * gl + (1.0 - g.wl) * gr) - flux * (phi_f - phi_upwind);
-    return Face{diffusion + std::max(flux, 0.0), diffusion + std::max(-flux, 0.0), diffusion + std::max(-flux, 0.0),
-                diffusion + std::max(flux, 0.0), explicit_left};
+    return Face{diffusion + std::max(flux, 0.0), diffusion + std::max(-flux, 0.0),
+                diffusion + std::max(-flux, 0.0), diffusion + std::max(flux, 0.0), explicit_left};
   };
   for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
     for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
@@ -163,7 +172,8 @@ double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
         if (is_dirichlet(kind, flux)) {
           const double area = norm(f.area);
           const double s1 = dot(f.centre - grid_.centre(i, j), (1.0 / area) * f.area);
-          const double c = (kind == BoundaryKind::wall && eq.wall_gamma >= 0.0 ? eq.wall_gamma : gamma(i, j)) * area / s1;
+          const double c =
+              (kind == BoundaryKind::wall && eq.wall_gamma >= 0.0 ? eq.wall_gamma : gamma(i, j)) * area / s1;
           diag += c;
           rhs += c * value;
           // Non-orthogonal correction (deferred): the cell value moved onto the face normal by its

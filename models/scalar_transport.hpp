@@ -14,13 +14,13 @@
 namespace wallrans {
 
 struct ScalarEquation {
-  Field* phi = nullptr;    ///< unknown (ghosted); updated in place, ghosts refreshed
+  Field* phi = nullptr;             ///< unknown (ghosted); updated in place, ghosts refreshed
   const Field* gamma = nullptr;     ///< diffusion coefficient [m^2/s] (ghosts current)
   const Field* source_u = nullptr;  ///< explicit source per unit volume (owned cells)
   const Field* source_p = nullptr;  ///< implicit source coefficient per unit volume, <= 0 (owned cells)
-  double wall_value = 0.0;       ///< value at no-slip walls
-  double wall_gamma = -1.0;      ///< diffusion coefficient at walls (< 0: use the cell value)
-  double freestream_value = 0.0; ///< value carried in through inflow and free boundaries
+  double wall_value = 0.0;          ///< value at no-slip walls
+  double wall_gamma = -1.0;         ///< diffusion coefficient at walls (< 0: use the cell value)
+  double freestream_value = 0.0;    ///< value carried in through inflow and free boundaries
   double relax = 0.8;
   /// Optional: value at wall/inflow faces as a function of the face centre (manufactured
   /// solutions); replaces wall_value and freestream_value there.
@@ -30,7 +30,8 @@ struct ScalarEquation {
 class ScalarTransport {
  public:
   /// Collective. `prefix` is the PETSc options prefix of the linear solver (e.g. "turbulence_").
-  ScalarTransport(const Grid& grid, const BoundaryMap& boundaries, ConvectionScheme scheme, const std::string& prefix);
+  ScalarTransport(const Grid& grid, const BoundaryMap& boundaries, ConvectionScheme scheme,
+                  const std::string& prefix);
 
   /// Collective: one implicit relaxed step. Returns the L1 norm of the unrelaxed residual before
   /// the step (in the equation's units times volume).

@@ -46,12 +46,16 @@ SaSource sa_source(double nu_tilde, double nu, double d, double omega, double gr
 SpalartAllmaras::SpalartAllmaras(const CaseSpec& spec, const Grid& grid, const BoundaryMap& boundaries)
     : WallBoundedModel(spec, grid, boundaries),
       transport_(grid, boundaries, spec.turbulence.convection, "turbulence_"),
-      nu_tilde_(grid, spec.turbulence.freestream_viscosity_ratio * spec.flow.kinematic_viscosity), gamma_(grid),
-      su_(grid), sp_(grid), with_ft2_(spec.turbulence.variant == "standard"),
+      nu_tilde_(grid, spec.turbulence.freestream_viscosity_ratio * spec.flow.kinematic_viscosity),
+      gamma_(grid),
+      su_(grid),
+      sp_(grid),
+      with_ft2_(spec.turbulence.variant == "standard"),
       negative_(spec.turbulence.variant == "negative") {
   for (size_t k = 0; k < nut_.data().size(); ++k) {
     const double chi = nu_tilde_.data()[k] / nu_;
-    nut_.data()[k] = nu_tilde_.data()[k] * chi * chi * chi / (chi * chi * chi + std::pow(SaConstants::cv1, 3));
+    nut_.data()[k] =
+        nu_tilde_.data()[k] * chi * chi * chi / (chi * chi * chi + std::pow(SaConstants::cv1, 3));
   }
 }
 

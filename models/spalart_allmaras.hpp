@@ -25,11 +25,11 @@ struct SaSource {
   double production;
   double destruction_coefficient;
   double gradient_term;
-  double nut;         ///< eddy viscosity nu_tilde f_v1 (0 where nu_tilde < 0)
-  double diffusivity; ///< (nu + nu_tilde f_n) / sigma
+  double nut;          ///< eddy viscosity nu_tilde f_v1 (0 where nu_tilde < 0)
+  double diffusivity;  ///< (nu + nu_tilde f_n) / sigma
 };
-SaSource sa_source(double nu_tilde, double nu, double d, double vorticity, double grad_nu_tilde_sq, bool with_ft2,
-                   bool negative_branch);
+SaSource sa_source(double nu_tilde, double nu, double d, double vorticity, double grad_nu_tilde_sq,
+                   bool with_ft2, bool negative_branch);
 
 class SpalartAllmaras final : public WallBoundedModel {
  public:
@@ -39,8 +39,14 @@ class SpalartAllmaras final : public WallBoundedModel {
   std::vector<ModelResidual> residuals() const override { return {{"nu_tilde", residual_}}; }
   std::vector<std::pair<std::string, const Field*>> output_fields() const override;
   std::vector<std::pair<std::string, Field*>> restart_state() override {
-    return {{"nu_tilde", &nu_tilde_}, {"eddy_viscosity", &nut_}, {"nu_tilde" "_gradient_x", &transport_.gradient().x},
-            {"nu_tilde" "_gradient_y", &transport_.gradient().y}};
+    return {{"nu_tilde", &nu_tilde_},
+            {"eddy_viscosity", &nut_},
+            {"nu_tilde"
+             "_gradient_x",
+             &transport_.gradient().x},
+            {"nu_tilde"
+             "_gradient_y",
+             &transport_.gradient().y}};
   }
   Field& variable() { return nu_tilde_; }
   /// Manufactured-solution hooks: an extra source per unit volume s(x) [m^2/s^2] added to the

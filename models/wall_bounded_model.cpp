@@ -5,13 +5,19 @@
 namespace wallrans {
 
 WallBoundedModel::WallBoundedModel(const CaseSpec& spec, const Grid& grid, const BoundaryMap& boundaries)
-    : spec_(spec), grid_(grid), boundaries_(boundaries), nu_(spec.flow.kinematic_viscosity),
-      walls_(compute_wall_distance(grid, collect_wall_faces(grid.nodes(), boundaries))), yplus_(grid),
+    : spec_(spec),
+      grid_(grid),
+      boundaries_(boundaries),
+      nu_(spec.flow.kinematic_viscosity),
+      walls_(compute_wall_distance(grid, collect_wall_faces(grid.nodes(), boundaries))),
+      yplus_(grid),
       nut_(grid) {
   if (!boundaries.has_wall()) {
     const std::string where = spec.source_file.empty() ? std::string("case") : spec.source_file;
-    throw InputError(where + ":" + std::to_string(spec.turbulence.line) + ": key 'turbulence.model': expected a "
-                     "grid with at least one no-slip wall for model '" + spec.turbulence.model + "', got none");
+    throw InputError(where + ":" + std::to_string(spec.turbulence.line) +
+                     ": key 'turbulence.model': expected a "
+                     "grid with at least one no-slip wall for model '" +
+                     spec.turbulence.model + "', got none");
   }
 }
 

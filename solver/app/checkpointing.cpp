@@ -15,8 +15,8 @@ struct RunCheckpoints::Arrays {
   int* iteration;
 };
 
-RunCheckpoints::RunCheckpoints(const CaseSpec& spec, const Grid& grid, FlowSolver& solver, TurbulenceModel& model,
-                               const std::string& case_text)
+RunCheckpoints::RunCheckpoints(const CaseSpec& spec, const Grid& grid, FlowSolver& solver,
+                               TurbulenceModel& model, const std::string& case_text)
     : spec_(spec), grid_(grid), solver_(solver), model_(model), case_hash_(text_hash(case_text)) {}
 
 RunCheckpoints::Arrays RunCheckpoints::arrays() {
@@ -42,11 +42,13 @@ std::string RunCheckpoints::write(const std::string& directory, int abort_after_
   for (const auto& [name, value] : a.scalars) meta.scalars.push_back({name, *value});
   const std::string base = "checkpoint_" + std::to_string(meta.iteration);
   const std::string path = (std::filesystem::path(directory) / (base + ".h5")).string();
-  const CheckpointMetadata written = write_checkpoint(grid_, path, meta, a.cells, a.sides, abort_after_datasets);
+  const CheckpointMetadata written =
+      write_checkpoint(grid_, path, meta, a.cells, a.sides, abort_after_datasets);
   if (grid_.rank() == 0) {
     std::vector<std::string> names;
     for (const auto& c : a.cells) names.push_back(c.name);
-    write_checkpoint_xdmf((std::filesystem::path(directory) / (base + ".xmf")).string(), base + ".h5", written, names);
+    write_checkpoint_xdmf((std::filesystem::path(directory) / (base + ".xmf")).string(), base + ".h5",
+                          written, names);
     prune_checkpoints(directory, "checkpoint", spec_.checkpoint.keep);
   }
   check_mpi(MPI_Barrier(grid_.comm()));
@@ -65,7 +67,8 @@ int RunCheckpoints::restart_from(const std::string& path) {
   const std::string fingerprint = grid_fingerprint(grid_.nodes());
   if (meta.grid_fingerprint != fingerprint) mismatch("grid fingerprint", fingerprint, meta.grid_fingerprint);
   if (meta.model != spec_.turbulence.model || meta.variant != spec_.turbulence.variant) {
-    mismatch("turbulence model", spec_.turbulence.model + "/" + spec_.turbulence.variant, meta.model + "/" + meta.variant);
+    mismatch("turbulence model", spec_.turbulence.model + "/" + spec_.turbulence.variant,
+             meta.model + "/" + meta.variant);
   }
   Arrays a = arrays();
   for (const auto& [name, value] : a.scalars) {
@@ -82,8 +85,9 @@ int RunCheckpoints::restart_from(const std::string& path) {
   *a.iteration = meta.iteration;
   solver_.restarted();
   if (grid_.rank() == 0 && meta.case_hash != case_hash_) {
-    std::printf("wallrans: note: %s was written by a different case file (settings changed since); continuing\n",
-                path.c_str());
+    std::printf(
+        "wallrans: note: %s was written by a different case file (settings changed since); continuing\n",
+        path.c_str());
   }
   return meta.iteration;
 }

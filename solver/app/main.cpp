@@ -23,7 +23,8 @@ constexpr const char* usage =
     "PETSc options for the linear solvers go last, e.g. -pressure_ksp_rtol 1e-3\n"
     "(prefixes: -momentum_, -pressure_).\n"
     "exit codes: 0 converged/valid, 2 bad input, 3 iteration cap reached, 4 diverged,\n"
-    "            5 stopped by SIGTERM/SIGINT or the wall-clock budget (checkpoint written), 1 other failure\n";
+    "            5 stopped by SIGTERM/SIGINT or the wall-clock budget (checkpoint written), 1 other "
+    "failure\n";
 
 struct Arguments {
   std::string command;
@@ -56,28 +57,38 @@ Arguments parse(int argc, char** argv) {
         if (k + 1 >= argc) throw wallrans::InputError("command line: " + arg + ": expected a value after it");
         return argv[++k];
       };
-      if (arg == "--output-dir") a.run.output_directory = value();
-      else if (arg == "--max-iterations") a.run.max_iterations = parse_int(arg, value());
-      else if (arg == "--quiet") a.run.quiet = true;
-      else if (arg == "--restart") a.run.restart = value();
-      else if (arg == "--walltime") a.run.walltime = parse_int(arg, value());
-      else throw wallrans::InputError("command line: unknown option '" + arg +
-                                      "'; expected --output-dir, --max-iterations, --quiet, --restart or --walltime");
+      if (arg == "--output-dir")
+        a.run.output_directory = value();
+      else if (arg == "--max-iterations")
+        a.run.max_iterations = parse_int(arg, value());
+      else if (arg == "--quiet")
+        a.run.quiet = true;
+      else if (arg == "--restart")
+        a.run.restart = value();
+      else if (arg == "--walltime")
+        a.run.walltime = parse_int(arg, value());
+      else
+        throw wallrans::InputError(
+            "command line: unknown option '" + arg +
+            "'; expected --output-dir, --max-iterations, --quiet, --restart or --walltime");
       continue;
     }
     if (arg.size() > 1 && arg[0] == '-') {
       if (positional.empty()) {
-        throw wallrans::InputError("command line: PETSc option '" + arg + "': expected it after the command and case file");
+        throw wallrans::InputError("command line: PETSc option '" + arg +
+                                   "': expected it after the command and case file");
       }
       break;
     }
     positional.push_back(arg);
   }
-  if (positional.empty()) throw wallrans::InputError("command line: expected a command (run, check, version)");
+  if (positional.empty())
+    throw wallrans::InputError("command line: expected a command (run, check, version)");
   a.command = positional[0];
   if (a.command == "version") return a;
   if (a.command != "run" && a.command != "check") {
-    throw wallrans::InputError("command line: unknown command '" + a.command + "'; expected run, check or version");
+    throw wallrans::InputError("command line: unknown command '" + a.command +
+                               "'; expected run, check or version");
   }
   if (positional.size() != 2) {
     throw wallrans::InputError("command line: " + a.command + ": expected exactly one case file, got " +

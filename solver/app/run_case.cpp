@@ -3,21 +3,21 @@
 #include "app/run_case.hpp"
 
 #include <chrono>
-#include <csignal>
-#include <cstdlib>
 #include <cmath>
+#include <csignal>
 #include <cstdio>
+#include <cstdlib>
 #include <filesystem>
 #include <fstream>
 #include <memory>
 #include <sstream>
 
+#include "app/checkpointing.hpp"
 #include "core/atomic_file.hpp"
 #include "core/error.hpp"
 #include "coupling/flow_solver.hpp"
 #include "grid/boundary.hpp"
 #include "grid/grid_quality.hpp"
-#include "app/checkpointing.hpp"
 #include "io/case_loader.hpp"
 #include "io/csv_writer.hpp"
 #include "io/gather.hpp"
@@ -72,7 +72,6 @@ Setup build(MPI_Comm comm, const std::string& case_file) {
   return s;
 }
 
-
 std::string json_number(double x) {
   if (!std::isfinite(x)) return "null";
   char buffer[40];
@@ -92,7 +91,8 @@ std::string json_string(const std::string& s) {
 
 // Profiles along the grid column containing each station x, measured from the bottom wall:
 // y (normal distance to the bottom wall face of the column), y+, U+ = u_t/u_tau, nu_t/nu.
-void write_profiles(const CaseSpec& spec, const FlowSolver& solver, const std::filesystem::path& dir, MPI_Comm comm) {
+void write_profiles(const CaseSpec& spec, const FlowSolver& solver, const std::filesystem::path& dir,
+                    MPI_Comm comm) {
   const Grid& grid = solver.grid();
   int rank = 0;
   MPI_Comm_rank(comm, &rank);
@@ -103,7 +103,8 @@ void write_profiles(const CaseSpec& spec, const FlowSolver& solver, const std::f
     for (int i = 0; i < grid.cells_x(); ++i)
       if (grid.node(i, 0).x <= x && x < grid.node(i + 1, 0).x) column = i;
     if (column < 0) {
-      if (rank == 0) std::printf("wallrans: warning: profile station x = %g is outside the grid; skipped\n", x);
+      if (rank == 0)
+        std::printf("wallrans: warning: profile station x = %g is outside the grid; skipped\n", x);
       continue;
     }
     // The bottom face of the column and its shear stress (owned by one rank, summed over all).
@@ -124,7 +125,8 @@ void write_profiles(const CaseSpec& spec, const FlowSolver& solver, const std::f
         const double y = dot(c - face_centre, normal);
         const double ut = dot(solver.velocity()(column, j), tangent);
         const double nut = solver.eddy_viscosity()(column, j);
-        rows.push_back({c.x, c.y, y, u_tau > 0 ? y * u_tau / nu : 0.0, ut, u_tau > 0 ? ut / u_tau : 0.0, nut / nu});
+        rows.push_back(
+            {c.x, c.y, y, u_tau > 0 ? y * u_tau / nu : 0.0, ut, u_tau > 0 ? ut / u_tau : 0.0, nut / nu});
       }
     }
     const auto all = gather_rows(comm, rows, 7);
@@ -147,13 +149,16 @@ int check_case(MPI_Comm comm, const std::string& case_file) {
   MPI_Comm_size(comm, &size);
   if (rank == 0) {
     std::printf("%s: case '%s' is valid\n", case_file.c_str(), s.spec.title.c_str());
-    std::printf("  grid: %d x %d cells, %d rank(s); min cell area %.3e m^2, max aspect ratio %.1f, "
-                "max non-orthogonality %.1f deg\n",
-                s.grid->cells_x(), s.grid->cells_y(), size, q.min_volume, q.max_aspect_ratio, q.max_non_orthogonality);
-    std::printf("  flow: nu = %.4g m^2/s, Re = U_ref L_ref / nu = %.4g; model %s; %zu boundary segment(s)\n",
-                s.spec.flow.kinematic_viscosity,
-                s.spec.flow.reference_velocity * s.spec.flow.reference_length / s.spec.flow.kinematic_viscosity,
-                s.spec.turbulence.model.c_str(), s.spec.boundaries.size());
+    std::printf(
+        "  grid: %d x %d cells, %d rank(s); min cell area %.3e m^2, max aspect ratio %.1f, "
+        "max non-orthogonality %.1f deg\n",
+        s.grid->cells_x(), s.grid->cells_y(), size, q.min_volume, q.max_aspect_ratio,
+        q.max_non_orthogonality);
+    std::printf(
+        "  flow: nu = %.4g m^2/s, Re = U_ref L_ref / nu = %.4g; model %s; %zu boundary segment(s)\n",
+        s.spec.flow.kinematic_viscosity,
+        s.spec.flow.reference_velocity * s.spec.flow.reference_length / s.spec.flow.kinematic_viscosity,
+        s.spec.turbulence.model.c_str(), s.spec.boundaries.size());
   }
   return 0;
 }
@@ -192,8 +197,10 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
   }
   MPI_Bcast(&dir_ok, 1, MPI_INT, 0, comm);
   if (!dir_ok) {
-    const std::string origin = options.output_directory ? "command line: --output-dir" : spec.source_file + ": key 'output.directory'";
-    throw InputError(origin + ": expected a directory that can be created, got '" + dir.string() + "' (" + dir_error + ")");
+    const std::string origin = options.output_directory ? "command line: --output-dir"
+                                                        : spec.source_file + ": key 'output.directory'";
+    throw InputError(origin + ": expected a directory that can be created, got '" + dir.string() + "' (" +
+                     dir_error + ")");
   }
 
   std::unique_ptr<CsvWriter> history;
@@ -211,21 +218,24 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
     }
     std::vector<std::string> columns{"iteration", "u_residual", "v_residual", "continuity_residual"};
     for (const auto& r : model->residuals()) columns.push_back(r.name + "_residual");
-    for (const char* c : {"u_residual_abs", "v_residual_abs", "continuity_residual_abs"}) columns.push_back(c);
+    for (const char* c : {"u_residual_abs", "v_residual_abs", "continuity_residual_abs"})
+      columns.push_back(c);
     for (const auto& r : model->residuals()) columns.push_back(r.name + "_residual_abs");
     for (const char* c : {"momentum_linear_its", "pressure_linear_its", "elapsed_s"}) columns.push_back(c);
     history = std::make_unique<CsvWriter>((dir / "history.csv").string(), columns);
     for (const auto& row : earlier)
       if (row.size() == columns.size()) history->row(row);
-    if (first_iteration > 0) std::printf("wallrans: restarted from %s at iteration %d\n", restart->c_str(), first_iteration);
-    std::printf("wallrans: case '%s', %d x %d cells on %d rank(s), model %s\n", spec.title.c_str(), grid.cells_x(),
-                grid.cells_y(), size, model->name().c_str());
+    if (first_iteration > 0)
+      std::printf("wallrans: restarted from %s at iteration %d\n", restart->c_str(), first_iteration);
+    std::printf("wallrans: case '%s', %d x %d cells on %d rank(s), model %s\n", spec.title.c_str(),
+                grid.cells_x(), grid.cells_y(), size, model->name().c_str());
     std::printf("%8s %12s %12s %12s", "iter", "res_u", "res_v", "res_mass");
     for (const auto& m : model->residuals()) std::printf(" %12s", ("res_" + m.name).c_str());
     std::printf(" %8s\n", "time_s");
   }
   auto fields = [&](const std::string& basename) {
-    std::vector<NamedScalar> scalars{{"pressure", &solver.pressure()}, {"eddy_viscosity", &solver.eddy_viscosity()}};
+    std::vector<NamedScalar> scalars{{"pressure", &solver.pressure()},
+                                     {"eddy_viscosity", &solver.eddy_viscosity()}};
     for (const auto& [name, field] : model->output_fields()) scalars.push_back({name, field});
     write_vtk_fields(grid, scalars, {{"velocity", &solver.velocity()}}, dir.string(), basename);
   };
@@ -255,13 +265,16 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
       for (double m : status.model_normalised) row.push_back(m);
       for (double a : {status.absolute.u, status.absolute.v, status.absolute.continuity}) row.push_back(a);
       for (const auto& m : status.model_absolute) row.push_back(m.value);
-      for (double a : {double(status.momentum_iterations), double(status.pressure_iterations), elapsed}) row.push_back(a);
+      for (double a : {double(status.momentum_iterations), double(status.pressure_iterations), elapsed})
+        row.push_back(a);
       history->row(row);
       const int every = spec.iterations.report_every;
-      if (!options.quiet && every > 0 && (status.iteration % every == 0 || status.iteration == 1 || converged || diverged)) {
+      if (!options.quiet && every > 0 &&
+          (status.iteration % every == 0 || status.iteration == 1 || converged || diverged)) {
         std::printf("%8d %12.4e %12.4e %12.4e", status.iteration, r.u, r.v, r.continuity);
         for (double m : status.model_normalised) std::printf(" %12.4e", m);
-        std::printf(" %8.1f%s\n", elapsed, status.linear_solves_converged ? "" : "  (a linear solve broke down)");
+        std::printf(" %8.1f%s\n", elapsed,
+                    status.linear_solves_converged ? "" : "  (a linear solve broke down)");
         std::fflush(stdout);
       }
     }
@@ -289,16 +302,20 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
   std::signal(SIGTERM, SIG_DFL);
   std::signal(SIGINT, SIG_DFL);
   if (diverged) {
-    if (rank == 0) std::printf("wallrans: diverged at iteration %d; fields not written (history.csv kept)\n", status.iteration);
+    if (rank == 0)
+      std::printf("wallrans: diverged at iteration %d; fields not written (history.csv kept)\n",
+                  status.iteration);
     return 4;
   }
   // A checkpoint at the end of every run that did not diverge, so it can be continued.
-  if (!stopped && !(spec.checkpoint.every > 0 && status.iteration % spec.checkpoint.every == 0)) timed_checkpoint();
+  if (!stopped && !(spec.checkpoint.every > 0 && status.iteration % spec.checkpoint.every == 0))
+    timed_checkpoint();
   fields("fields");
   if (spec.output.wall_data) {
     std::vector<std::vector<double>> rows;
     for (const auto& w : solver.wall_samples()) {
-      const double yplus = w.first_cell_distance * std::sqrt(std::abs(w.shear_stress)) / spec.flow.kinematic_viscosity;
+      const double yplus =
+          w.first_cell_distance * std::sqrt(std::abs(w.shear_stress)) / spec.flow.kinematic_viscosity;
       rows.push_back({w.centre.x, w.centre.y, w.cf, w.cp, w.shear_stress, w.first_cell_distance, yplus});
     }
     const auto all = gather_rows(comm, rows, 7);
@@ -311,22 +328,25 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
   write_profiles(spec, solver, dir, comm);
   if (rank == 0) {
     std::ostringstream json;
-    json << "{\n  \"title\": " << json_string(spec.title) << ",\n  \"case_file\": " << json_string(spec.source_file)
+    json << "{\n  \"title\": " << json_string(spec.title)
+         << ",\n  \"case_file\": " << json_string(spec.source_file)
          << ",\n  \"version\": " << json_string(WALLRANS_VERSION) << ",\n  \"ranks\": " << size
-         << ",\n  \"cells\": [" << grid.cells_x() << ", " << grid.cells_y() << "],\n  \"model\": "
-         << json_string(model->name()) << ",\n  \"iterations\": " << status.iteration
-         << ",\n  \"converged\": " << (converged ? "true" : "false") << ",\n  \"stopped_early\": "
-         << (stopped ? "true" : "false") << ",\n  \"residuals\": {\"u\": "
-         << json_number(status.normalised.u) << ", \"v\": " << json_number(status.normalised.v)
-         << ", \"continuity\": " << json_number(status.normalised.continuity) << "},\n  \"residual_drop\": "
-         << json_number(spec.iterations.residual_drop) << ",\n  \"wall_time_s\": " << json_number(elapsed)
-         << ",\n  \"caution\": " << json_string(caution) << "\n}\n";
+         << ",\n  \"cells\": [" << grid.cells_x() << ", " << grid.cells_y()
+         << "],\n  \"model\": " << json_string(model->name()) << ",\n  \"iterations\": " << status.iteration
+         << ",\n  \"converged\": " << (converged ? "true" : "false")
+         << ",\n  \"stopped_early\": " << (stopped ? "true" : "false")
+         << ",\n  \"residuals\": {\"u\": " << json_number(status.normalised.u)
+         << ", \"v\": " << json_number(status.normalised.v)
+         << ", \"continuity\": " << json_number(status.normalised.continuity)
+         << "},\n  \"residual_drop\": " << json_number(spec.iterations.residual_drop)
+         << ",\n  \"wall_time_s\": " << json_number(elapsed) << ",\n  \"caution\": " << json_string(caution)
+         << "\n}\n";
     write_file_atomically(dir / "summary.json", json.str(), "run directory");
     std::printf("wallrans: %s after %d iterations (%.1f s); results in %s\n",
-                converged ? "converged" : stopped ? "stopped early (restart from the last checkpoint)"
-                                                  : "NOT converged (iteration cap reached)",
-                status.iteration, elapsed,
-                dir.string().c_str());
+                converged ? "converged"
+                : stopped ? "stopped early (restart from the last checkpoint)"
+                          : "NOT converged (iteration cap reached)",
+                status.iteration, elapsed, dir.string().c_str());
     std::printf("note: %s\n", caution);
   }
   if (stopped) return exit_stopped_with_checkpoint;

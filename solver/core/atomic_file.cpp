@@ -17,13 +17,15 @@ struct CloseFile {
 };
 }  // namespace
 
-void write_file_atomically(const std::filesystem::path& path, const std::string& bytes, const std::string& what) {
+void write_file_atomically(const std::filesystem::path& path, const std::string& bytes,
+                           const std::string& what) {
   namespace fs = std::filesystem;
   fs::path temporary = path;
   temporary += ".tmp";
   std::unique_ptr<std::FILE, CloseFile> file(std::fopen(temporary.c_str(), "wb"));
   if (!file) {
-    throw Error(what + ": cannot create '" + temporary.string() + "': " + std::generic_category().message(errno));
+    throw Error(what + ": cannot create '" + temporary.string() +
+                "': " + std::generic_category().message(errno));
   }
   const bool written = std::fwrite(bytes.data(), 1, bytes.size(), file.get()) == bytes.size() &&
                        std::fflush(file.get()) == 0 && ::fsync(fileno(file.get())) == 0;
@@ -33,13 +35,15 @@ void write_file_atomically(const std::filesystem::path& path, const std::string&
   std::error_code ignored;
   if (!written || !closed) {
     fs::remove(temporary, ignored);
-    throw Error(what + ": cannot write '" + temporary.string() + "': " + std::generic_category().message(error));
+    throw Error(what + ": cannot write '" + temporary.string() +
+                "': " + std::generic_category().message(error));
   }
   std::error_code renamed;
   fs::rename(temporary, path, renamed);
   if (renamed) {
     fs::remove(temporary, ignored);
-    throw Error(what + ": cannot rename '" + temporary.string() + "' to '" + path.string() + "': " + renamed.message());
+    throw Error(what + ": cannot rename '" + temporary.string() + "' to '" + path.string() +
+                "': " + renamed.message());
   }
 }
 

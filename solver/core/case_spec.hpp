@@ -52,9 +52,9 @@ struct BoundarySegmentSpec {
   std::optional<double> from;  ///< start coordinate along the side (x for bottom/top, y for left/right)
   std::optional<double> to;    ///< end coordinate along the side
   BoundaryKind kind = BoundaryKind::wall;
-  Vec2 velocity{0.0, 0.0};     ///< wall velocity, inflow velocity or free-stream velocity [m/s]
+  Vec2 velocity{0.0, 0.0};         ///< wall velocity, inflow velocity or free-stream velocity [m/s]
   std::optional<double> pressure;  ///< outflow/free static pressure; default flow.reference_pressure
-  int line = 0;                ///< source line in the case file, for messages (0 = unknown)
+  int line = 0;                    ///< source line in the case file, for messages (0 = unknown)
 };
 
 enum class PeriodicAxis { none, x };
@@ -69,13 +69,13 @@ enum class ConvectionScheme { upwind, linear_upwind, bounded_linear_upwind, cent
 
 struct IterationSpec {
   Coupling coupling = Coupling::simplec;
-  int max = 2000;                  ///< maximum outer iterations, >= 1
-  double residual_drop = 1e-6;     ///< stop when every normalised residual is below this
-  double relax_velocity = 0.8;     ///< in (0, 1)
-  double relax_pressure = 1.0;     ///< in (0, 1]; SIMPLE typically 0.3
+  int max = 2000;               ///< maximum outer iterations, >= 1
+  double residual_drop = 1e-6;  ///< stop when every normalised residual is below this
+  double relax_velocity = 0.8;  ///< in (0, 1)
+  double relax_pressure = 1.0;  ///< in (0, 1]; SIMPLE typically 0.3
   ConvectionScheme convection = ConvectionScheme::bounded_linear_upwind;
-  int report_every = 50;           ///< terminal residual line every N iterations (0 = never)
-  std::string petsc_options;       ///< extra PETSc options, e.g. "-pressure_ksp_rtol 0.01"
+  int report_every = 50;      ///< terminal residual line every N iterations (0 = never)
+  std::string petsc_options;  ///< extra PETSc options, e.g. "-pressure_ksp_rtol 0.01"
 };
 
 /// Turbulence closure (equations in models/README.md).
@@ -89,13 +89,13 @@ struct TurbulenceSpec {
   std::optional<double> outer_length;       ///< mixing_length: delta in l <= 0.09 delta [m] (required there)
   double relax = 0.8;                       ///< under-relaxation of the model equation, in (0, 1]
   ConvectionScheme convection = ConvectionScheme::bounded_linear_upwind;
-  int line = 0;                             ///< case-file line of the turbulence section (messages)
+  int line = 0;  ///< case-file line of the turbulence section (messages)
 };
 
 struct OutputSpec {
   std::string directory = "out";
-  int fields_every = 0;     ///< VTK files every N iterations (0 = only at the end)
-  bool wall_data = true;    ///< write wall.csv (x, y, Cf, Cp, y+) at the end
+  int fields_every = 0;               ///< VTK files every N iterations (0 = only at the end)
+  bool wall_data = true;              ///< write wall.csv (x, y, Cf, Cp, y+) at the end
   std::vector<double> profiles_at_x;  ///< x stations [m] of profile_<k>.csv (y, y+, U+, nu_t/nu)
 };
 

@@ -8,8 +8,8 @@ namespace wallrans {
 
 namespace {
 std::string site(const std::source_location& where) {
-  return std::string(where.file_name()) + ":" + std::to_string(where.line()) + " (" +
-         where.function_name() + ")";
+  return std::string(where.file_name()) + ":" + std::to_string(where.line()) + " (" + where.function_name() +
+         ")";
 }
 }  // namespace
 
@@ -26,8 +26,7 @@ void check_mpi(int code, const std::source_location& where) {
   char text[MPI_MAX_ERROR_STRING];
   int length = 0;
   MPI_Error_string(code, text, &length);
-  throw Error("MPI error (" + std::string(text, static_cast<size_t>(length)) + ") at " +
-              site(where));
+  throw Error("MPI error (" + std::string(text, static_cast<size_t>(length)) + ") at " + site(where));
 }
 
 }  // namespace wallrans

@@ -23,10 +23,30 @@ void set_default_option(const char* name, const char* value) {
 
 FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap& boundaries,
                        TurbulenceModel& model)
-    : spec_(spec), grid_(grid), boundaries_(boundaries), model_(model), bfaces_(owned_boundary_faces(grid)),
-      vel_(grid), vel_old_(grid), grad_u_(grid), grad_v_(grid), grad_p_(grid), grad_pc_(grid), p_(grid),
-      pc_(grid), nu_eff_(grid, spec.flow.kinematic_viscosity), d_rc_(grid), d_corr_(grid), flux_e_(grid),
-      flux_n_(grid), flux_e_old_(grid), flux_n_old_(grid), u_b_(grid), v_b_(grid), p_b_(grid), zero_b_(grid) {
+    : spec_(spec),
+      grid_(grid),
+      boundaries_(boundaries),
+      model_(model),
+      bfaces_(owned_boundary_faces(grid)),
+      vel_(grid),
+      vel_old_(grid),
+      grad_u_(grid),
+      grad_v_(grid),
+      grad_p_(grid),
+      grad_pc_(grid),
+      p_(grid),
+      pc_(grid),
+      nu_eff_(grid, spec.flow.kinematic_viscosity),
+      d_rc_(grid),
+      d_corr_(grid),
+      flux_e_(grid),
+      flux_n_(grid),
+      flux_e_old_(grid),
+      flux_n_old_(grid),
+      u_b_(grid),
+      v_b_(grid),
+      p_b_(grid),
+      zero_b_(grid) {
   for (const auto& seg : boundaries_.segments()) {
     if (seg.kind == BoundaryKind::outflow || seg.kind == BoundaryKind::free) has_pressure_boundary_ = true;
   }
@@ -69,9 +89,12 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
   for (const auto& f : bfaces_) {
     const auto kind = segment(f).kind;
     double& flux = boundary_flux_ref(f);
-    if (kind == BoundaryKind::slip) flux = 0.0;
-    else if (kind == BoundaryKind::wall || kind == BoundaryKind::inflow) flux = u_b_.at(f) * f.area.x + v_b_.at(f) * f.area.y;
-    else flux = dot(vel_(f.i, f.j), f.area);
+    if (kind == BoundaryKind::slip)
+      flux = 0.0;
+    else if (kind == BoundaryKind::wall || kind == BoundaryKind::inflow)
+      flux = u_b_.at(f) * f.area.x + v_b_.at(f) * f.area.y;
+    else
+      flux = dot(vel_(f.i, f.j), f.area);
   }
   flux_e_.exchange();
   flux_n_.exchange();
@@ -130,20 +153,28 @@ bool FlowSolver::is_pressure_boundary(const BoundaryFace& f) const {
 
 double& FlowSolver::boundary_flux_ref(const BoundaryFace& f) {
   switch (f.side) {
-    case Side::left: return flux_w_[f.index];
-    case Side::bottom: return flux_s_[f.index];
-    case Side::right: return flux_e_(f.i, f.j);
-    case Side::top: return flux_n_(f.i, f.j);
+    case Side::left:
+      return flux_w_[f.index];
+    case Side::bottom:
+      return flux_s_[f.index];
+    case Side::right:
+      return flux_e_(f.i, f.j);
+    case Side::top:
+      return flux_n_(f.i, f.j);
   }
   return flux_w_[0];
 }
 
 double& FlowSolver::boundary_flux_old_ref(const BoundaryFace& f) {
   switch (f.side) {
-    case Side::left: return flux_w_old_[f.index];
-    case Side::bottom: return flux_s_old_[f.index];
-    case Side::right: return flux_e_old_(f.i, f.j);
-    case Side::top: return flux_n_old_(f.i, f.j);
+    case Side::left:
+      return flux_w_old_[f.index];
+    case Side::bottom:
+      return flux_s_old_[f.index];
+    case Side::right:
+      return flux_e_old_(f.i, f.j);
+    case Side::top:
+      return flux_n_old_(f.i, f.j);
   }
   return flux_w_old_[0];
 }
@@ -161,7 +192,8 @@ void FlowSolver::update_velocity_boundary_values() {
       case BoundaryKind::inflow:
         value = boundary_velocity_ ? boundary_velocity_(f.centre) : seg.velocity;
         break;
-      case BoundaryKind::outflow: break;  // zero normal gradient
+      case BoundaryKind::outflow:
+        break;  // zero normal gradient
       case BoundaryKind::free:
         if (iteration_ > 0 && boundary_flux(f) < 0.0) value = seg.velocity;
         break;
@@ -215,7 +247,8 @@ IterationStatus FlowSolver::iterate() {
   flux_s_old_ = flux_s_;
 
   const Field& nut = model_.eddy_viscosity();
-  for (size_t k = 0; k < nu_eff_.data().size(); ++k) nu_eff_.data()[k] = spec_.flow.kinematic_viscosity + nut.data()[k];
+  for (size_t k = 0; k < nu_eff_.data().size(); ++k)
+    nu_eff_.data()[k] = spec_.flow.kinematic_viscosity + nut.data()[k];
 
   update_velocity_boundary_values();
   lsq_all_->compute(vel_.x, u_b_, grad_u_);
@@ -247,16 +280,21 @@ IterationStatus FlowSolver::iterate() {
   model_reference_.resize(status.model_absolute.size(), 0.0);
   for (size_t k = 0; k < status.model_absolute.size(); ++k) {
     if (iteration_ <= 5) model_reference_[k] = std::max(model_reference_[k], status.model_absolute[k].value);
-    status.model_normalised.push_back(model_reference_[k] > 0.0 ? status.model_absolute[k].value / model_reference_[k]
-                                                                : status.model_absolute[k].value);
+    status.model_normalised.push_back(model_reference_[k] > 0.0
+                                          ? status.model_absolute[k].value / model_reference_[k]
+                                          : status.model_absolute[k].value);
   }
   return status;
 }
 
 SolverRestartState FlowSolver::restart_state() {
   SolverRestartState state;
-  state.cells = {{"velocity_x", &vel_.x},          {"velocity_y", &vel_.y},          {"pressure", &p_},
-                 {"pressure_gradient_x", &grad_p_.x}, {"pressure_gradient_y", &grad_p_.y}, {"flux_east", &flux_e_},
+  state.cells = {{"velocity_x", &vel_.x},
+                 {"velocity_y", &vel_.y},
+                 {"pressure", &p_},
+                 {"pressure_gradient_x", &grad_p_.x},
+                 {"pressure_gradient_y", &grad_p_.y},
+                 {"flux_east", &flux_e_},
                  {"flux_north", &flux_n_}};
   state.left = {{"flux_west_boundary", &flux_w_}};
   state.bottom = {{"flux_south_boundary", &flux_s_}};
@@ -277,8 +315,17 @@ void FlowSolver::restarted() {
 }
 
 MeanFlowView FlowSolver::view() const {
-  return MeanFlowView{grid_,   boundaries_, bfaces_, bflux_,       vel_, grad_u_, grad_v_,
-                      flux_e_, flux_n_,     wall_shear_, spec_.flow.kinematic_viscosity};
+  return MeanFlowView{grid_,
+                      boundaries_,
+                      bfaces_,
+                      bflux_,
+                      vel_,
+                      grad_u_,
+                      grad_v_,
+                      flux_e_,
+                      flux_n_,
+                      wall_shear_,
+                      spec_.flow.kinematic_viscosity};
 }
 
 void FlowSolver::refresh_wall_shear() {
@@ -291,8 +338,8 @@ void FlowSolver::refresh_wall_shear() {
     local[wall_id_[k]] = std::abs(samples[s++].shear_stress);
   }
   if (!local.empty()) {
-    check_mpi(MPI_Allreduce(local.data(), wall_shear_.data(), static_cast<int>(local.size()), MPI_DOUBLE, MPI_SUM,
-                            grid_.comm()));
+    check_mpi(MPI_Allreduce(local.data(), wall_shear_.data(), static_cast<int>(local.size()), MPI_DOUBLE,
+                            MPI_SUM, grid_.comm()));
   }
 }
 
@@ -334,14 +381,16 @@ void FlowSolver::solve_momentum(IterationStatus& status) {
       for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) b[j][i] = rhs[grid_.owned(i, j)];
     check_petsc(DMDAVecRestoreArray(grid_.dm(), b_vec_.get(), &b));
     Field& target = component == 0 ? vel_.x : vel_.y;
-    solve_linear(ksp_mom_.get(), b_vec_.get(), target, status.momentum_iterations, status.linear_solves_converged);
+    solve_linear(ksp_mom_.get(), b_vec_.get(), target, status.momentum_iterations,
+                 status.linear_solves_converged);
   }
   vel_.exchange();
   d_rc_.exchange();
   d_corr_.exchange();
 }
 
-double FlowSolver::interior_flux(int il, int jl, int ir, int jr, const FaceGeometry& face, double flux_old) const {
+double FlowSolver::interior_flux(int il, int jl, int ir, int jr, const FaceGeometry& face,
+                                 double flux_old) const {
   const Vec2 xl = grid_.centre(il, jl), xr = grid_.centre(ir, jr);
   const Vec2 d = xr - xl;
   const double wl = dot(xr - face.centre, d) / dot(d, d);
@@ -364,8 +413,10 @@ double FlowSolver::interior_flux(int il, int jl, int ir, int jr, const FaceGeome
 void FlowSolver::predict_fluxes() {
   for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
     for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
-      if (grid_.has_east(i)) flux_e_(i, j) = interior_flux(i, j, i + 1, j, grid_.east_face(i, j), flux_e_old_(i, j));
-      if (grid_.has_north(j)) flux_n_(i, j) = interior_flux(i, j, i, j + 1, grid_.north_face(i, j), flux_n_old_(i, j));
+      if (grid_.has_east(i))
+        flux_e_(i, j) = interior_flux(i, j, i + 1, j, grid_.east_face(i, j), flux_e_old_(i, j));
+      if (grid_.has_north(j))
+        flux_n_(i, j) = interior_flux(i, j, i, j + 1, grid_.north_face(i, j), flux_n_old_(i, j));
     }
   }
   const double alpha = spec_.iterations.relax_velocity;
@@ -375,7 +426,8 @@ void FlowSolver::predict_fluxes() {
     if (kind == BoundaryKind::slip) {
       flux = 0.0;
     } else if (kind == BoundaryKind::wall || kind == BoundaryKind::inflow) {
-      flux = boundary_flux_fn_ ? boundary_flux_fn_(f.centre, f.area) : u_b_.at(f) * f.area.x + v_b_.at(f) * f.area.y;
+      flux = boundary_flux_fn_ ? boundary_flux_fn_(f.centre, f.area)
+                               : u_b_.at(f) * f.area.x + v_b_.at(f) * f.area.y;
     } else {
       const Vec2 xp = grid_.centre(f.i, f.j);
       const Vec2 d = f.centre - xp;
@@ -453,9 +505,11 @@ void FlowSolver::correct() {
   for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
     for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
       if (grid_.has_east(i))
-        flux_e_(i, j) -= pressure_coefficient(i, j, i + 1, j, grid_.east_face(i, j)) * (pc_(i + 1, j) - pc_(i, j));
+        flux_e_(i, j) -=
+            pressure_coefficient(i, j, i + 1, j, grid_.east_face(i, j)) * (pc_(i + 1, j) - pc_(i, j));
       if (grid_.has_north(j))
-        flux_n_(i, j) -= pressure_coefficient(i, j, i, j + 1, grid_.north_face(i, j)) * (pc_(i, j + 1) - pc_(i, j));
+        flux_n_(i, j) -=
+            pressure_coefficient(i, j, i, j + 1, grid_.north_face(i, j)) * (pc_(i, j + 1) - pc_(i, j));
     }
   }
   for (const auto& f : bfaces_) {

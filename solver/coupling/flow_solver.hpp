@@ -22,10 +22,11 @@ struct ResidualNorms {
 
 struct IterationStatus {
   int iteration = 0;
-  ResidualNorms absolute;    ///< L1 norms: momentum imbalance [m^3/s^2], mass imbalance [m^2/s]
-  ResidualNorms normalised;  ///< momentum: / largest momentum residual of iterations 1-5; continuity: / (U_ref L_ref)
-  std::vector<ModelResidual> model_absolute;    ///< turbulence-model residuals (L1)
-  std::vector<double> model_normalised;         ///< / largest of iterations 1-5
+  ResidualNorms absolute;  ///< L1 norms: momentum imbalance [m^3/s^2], mass imbalance [m^2/s]
+  ResidualNorms
+      normalised;  ///< momentum: / largest momentum residual of iterations 1-5; continuity: / (U_ref L_ref)
+  std::vector<ModelResidual> model_absolute;  ///< turbulence-model residuals (L1)
+  std::vector<double> model_normalised;       ///< / largest of iterations 1-5
   int momentum_iterations = 0;
   int pressure_iterations = 0;
   bool linear_solves_converged = true;
@@ -36,17 +37,17 @@ struct WallSample {
   Side side;
   int index;
   Vec2 centre;
-  double shear_stress;  ///< nu dU_t/dn at the wall, sign along the tangent with t.x >= 0 [m^2/s^2]
-  double cf;            ///< 2 tau / U_ref^2
-  double cp;            ///< (p_w - p_ref) / (U_ref^2 / 2)
+  double shear_stress;         ///< nu dU_t/dn at the wall, sign along the tangent with t.x >= 0 [m^2/s^2]
+  double cf;                   ///< 2 tau / U_ref^2
+  double cp;                   ///< (p_w - p_ref) / (U_ref^2 / 2)
   double first_cell_distance;  ///< normal distance wall -> first cell centre [m]
 };
 
 /// Everything the solver needs to continue bit-identically from a checkpoint, borrowed.
 struct SolverRestartState {
-  std::vector<std::pair<std::string, Field*>> cells;             ///< cell fields, global (i, j)
+  std::vector<std::pair<std::string, Field*>> cells;                       ///< cell fields, global (i, j)
   std::vector<std::pair<std::string, std::vector<double>*>> left, bottom;  ///< boundary-face arrays
-  std::vector<std::pair<std::string, double*>> scalars;          ///< residual references
+  std::vector<std::pair<std::string, double*>> scalars;                    ///< residual references
   int* iteration;
 };
 
@@ -103,10 +104,13 @@ class FlowSolver {
   FaceTerms interior_face_terms(int il, int jl, int ir, int jr, const FaceGeometry& face, double flux) const;
   double pressure_coefficient(int il, int jl, int ir, int jr, const FaceGeometry& face) const;
   double interior_flux(int il, int jl, int ir, int jr, const FaceGeometry& face, double flux_old) const;
-  double normal_derivative(const Field& phi, const VectorField& grad, double phi_b, const BoundaryFace& face) const;
+  double normal_derivative(const Field& phi, const VectorField& grad, double phi_b,
+                           const BoundaryFace& face) const;
   double& boundary_flux_ref(const BoundaryFace& face);
   double& boundary_flux_old_ref(const BoundaryFace& face);
-  const BoundarySegmentSpec& segment(const BoundaryFace& face) const { return boundaries_.spec(face.side, face.index); }
+  const BoundarySegmentSpec& segment(const BoundaryFace& face) const {
+    return boundaries_.spec(face.side, face.index);
+  }
   bool is_pressure_boundary(const BoundaryFace& face) const;
   void solve_linear(KSP ksp, Vec rhs, Field& solution, int& iterations, bool& converged);
 

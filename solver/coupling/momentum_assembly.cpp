@@ -6,20 +6,20 @@
 #include <algorithm>
 #include <cmath>
 
+#include "core/error.hpp"
 #include "coupling/flow_solver.hpp"
 #include "discretization/convection.hpp"
-#include "core/error.hpp"
 
 namespace wallrans {
 
 struct FlowSolver::FaceTerms {
-  double diffusion;    ///< implicit diffusion coefficient nu_f |S|^2 / (S . d)
-  double explicit_u;   ///< explicit part of the flux balance of the left cell, u equation
+  double diffusion;   ///< implicit diffusion coefficient nu_f |S|^2 / (S . d)
+  double explicit_u;  ///< explicit part of the flux balance of the left cell, u equation
   double explicit_v;
 };
 
-FlowSolver::FaceTerms FlowSolver::interior_face_terms(int il, int jl, int ir, int jr, const FaceGeometry& face,
-                                                      double flux) const {
+FlowSolver::FaceTerms FlowSolver::interior_face_terms(int il, int jl, int ir, int jr,
+                                                      const FaceGeometry& face, double flux) const {
   const Vec2 xl = grid_.centre(il, jl), xr = grid_.centre(ir, jr);
   const InteriorFaceGeometry g = interior_face_geometry(xl, xr, face.area, face.centre);
   const double wl = g.wl;
@@ -29,7 +29,8 @@ FlowSolver::FaceTerms FlowSolver::interior_face_terms(int il, int jl, int ir, in
   // interpolated cell gradient (Jasak 1996, sec. 3.3.1.3).
   auto terms = [&](const Field& phi, const VectorField& grad) {
     const Vec2 gl = grad(il, jl), gr = grad(ir, jr);
-    const double phi_f = face_value(scheme, flux, phi(il, jl), phi(ir, jr), gl, gr, xl, xr, face.centre, wl, g.skew);
+    const double phi_f =
+        face_value(scheme, flux, phi(il, jl), phi(ir, jr), gl, gr, xl, xr, face.centre, wl, g.skew);
     const double phi_upwind = flux >= 0.0 ? phi(il, jl) : phi(ir, jr);
     const double convection_correction = flux * (phi_f - phi_upwind);
     const double cross_diffusion = nu_f * dot(g.cross, wl * gl + (1.0 - wl) * gr);
@@ -157,8 +158,10 @@ void FlowSolver::assemble_momentum(ResidualNorms& residual) {
             const double nu_w = seg.kind == BoundaryKind::wall ? nu : nu_eff_(i, j);
             const double c = nu_w * area / s1;
             diag += c;
-            bu += c * ub + nu_w * area * (normal_derivative(vel_.x, grad_u_, ub, f) - (ub - vel_.x(i, j)) / s1);
-            bv += c * vb + nu_w * area * (normal_derivative(vel_.y, grad_v_, vb, f) - (vb - vel_.y(i, j)) / s1);
+            bu +=
+                c * ub + nu_w * area * (normal_derivative(vel_.x, grad_u_, ub, f) - (ub - vel_.x(i, j)) / s1);
+            bv +=
+                c * vb + nu_w * area * (normal_derivative(vel_.y, grad_v_, vb, f) - (vb - vel_.y(i, j)) / s1);
             break;
           }
           case BoundaryKind::outflow:
@@ -191,8 +194,9 @@ void FlowSolver::assemble_momentum(ResidualNorms& residual) {
       diag_[o] = diag_relaxed;
       d_rc_(i, j) = volume / diag_relaxed;
       // SIMPLEC: d = V / (a_P - sum a_nb) (van Doormaal & Raithby 1984).
-      d_corr_(i, j) = spec_.iterations.coupling == Coupling::simplec ? volume / std::max(diag_relaxed - sum_nb, 1e-300)
-                                                                    : d_rc_(i, j);
+      d_corr_(i, j) = spec_.iterations.coupling == Coupling::simplec
+                          ? volume / std::max(diag_relaxed - sum_nb, 1e-300)
+                          : d_rc_(i, j);
       check_petsc(MatSetValuesStencil(a, 1, &row, n, cols, vals, INSERT_VALUES));
     }
   }

@@ -11,12 +11,13 @@ namespace wallrans {
 /// Local. Face value targeted by the deferred correction for the face between cells L and R
 /// (centres xl, xr, gradients grad_l, grad_r), face centre xf, linear weight wl of L and skew
 /// vector from the L-R line to xf; `flux` > 0 means flow from L to R.
-inline double face_value(ConvectionScheme scheme, double flux, double phi_l, double phi_r, Vec2 grad_l, Vec2 grad_r,
-                         Vec2 xl, Vec2 xr, Vec2 xf, double wl, Vec2 skew) {
+inline double face_value(ConvectionScheme scheme, double flux, double phi_l, double phi_r, Vec2 grad_l,
+                         Vec2 grad_r, Vec2 xl, Vec2 xr, Vec2 xf, double wl, Vec2 skew) {
   const bool from_left = flux >= 0.0;
   const double phi_u = from_left ? phi_l : phi_r;
   switch (scheme) {
-    case ConvectionScheme::upwind: return phi_u;
+    case ConvectionScheme::upwind:
+      return phi_u;
     case ConvectionScheme::central:
       return wl * phi_l + (1.0 - wl) * phi_r + dot(wl * grad_l + (1.0 - wl) * grad_r, skew);
     case ConvectionScheme::linear_upwind:
@@ -34,11 +35,11 @@ inline double face_value(ConvectionScheme scheme, double flux, double phi_l, dou
 
 /// Geometry of the interior face between L and R used by every transport equation.
 struct InteriorFaceGeometry {
-  Vec2 d;             ///< x_R - x_L
-  double wl;          ///< linear-interpolation weight of L
-  Vec2 skew;          ///< face centre minus its projection on the L-R line
-  double k;           ///< |S|^2 / (S . d): implicit diffusion factor (over-relaxed split)
-  Vec2 cross;         ///< S - k d: the explicit (non-orthogonal) part of the diffusion
+  Vec2 d;      ///< x_R - x_L
+  double wl;   ///< linear-interpolation weight of L
+  Vec2 skew;   ///< face centre minus its projection on the L-R line
+  double k;    ///< |S|^2 / (S . d): implicit diffusion factor (over-relaxed split)
+  Vec2 cross;  ///< S - k d: the explicit (non-orthogonal) part of the diffusion
 };
 
 inline InteriorFaceGeometry interior_face_geometry(Vec2 xl, Vec2 xr, Vec2 area, Vec2 centre) {

@@ -23,7 +23,7 @@ class LeastSquaresGradient {
 
  private:
   struct CellFit {
-    double inv_xx = 0, inv_xy = 0, inv_yy = 0;  // inverse of the 2x2 normal matrix
+    double inv_xx = 0, inv_xy = 0, inv_yy = 0;    // inverse of the 2x2 normal matrix
     std::array<int, 4> boundary{-1, -1, -1, -1};  // included boundary faces of this cell
   };
   const Grid& grid_;

@@ -16,21 +16,30 @@ std::string where(const CaseSpec& spec, int line) {
 
 const char* to_string(Side side) {
   switch (side) {
-    case Side::left: return "left";
-    case Side::right: return "right";
-    case Side::bottom: return "bottom";
-    case Side::top: return "top";
+    case Side::left:
+      return "left";
+    case Side::right:
+      return "right";
+    case Side::bottom:
+      return "bottom";
+    case Side::top:
+      return "top";
   }
   return "?";
 }
 
 const char* to_string(BoundaryKind kind) {
   switch (kind) {
-    case BoundaryKind::wall: return "wall";
-    case BoundaryKind::inflow: return "inflow";
-    case BoundaryKind::outflow: return "outflow";
-    case BoundaryKind::slip: return "slip";
-    case BoundaryKind::free: return "free";
+    case BoundaryKind::wall:
+      return "wall";
+    case BoundaryKind::inflow:
+      return "inflow";
+    case BoundaryKind::outflow:
+      return "outflow";
+    case BoundaryKind::slip:
+      return "slip";
+    case BoundaryKind::free:
+      return "free";
   }
   return "?";
 }
@@ -48,7 +57,8 @@ BoundaryMap::BoundaryMap(const CaseSpec& spec, const NodeCoordinates& nodes) : s
     // Coordinate of each face centre along the side (x for bottom/top, y for left/right).
     std::vector<double> mid(static_cast<size_t>(n));
     for (int k = 0; k < n; ++k) {
-      const Vec2 a = along_x ? nodes.at(k, side == Side::bottom ? 0 : ny) : nodes.at(side == Side::left ? 0 : nx, k);
+      const Vec2 a =
+          along_x ? nodes.at(k, side == Side::bottom ? 0 : ny) : nodes.at(side == Side::left ? 0 : nx, k);
       const Vec2 b = along_x ? nodes.at(k + 1, side == Side::bottom ? 0 : ny)
                              : nodes.at(side == Side::left ? 0 : nx, k + 1);
       mid[k] = along_x ? 0.5 * (a.x + b.x) : 0.5 * (a.y + b.y);
@@ -59,25 +69,30 @@ BoundaryMap::BoundaryMap(const CaseSpec& spec, const NodeCoordinates& nodes) : s
       if (seg.side != side) continue;
       if (first_line == 0) first_line = seg.line;
       if (periodic_side) {
-        throw InputError(where(spec, seg.line) + ": " + key(s) + "expected no segment on side '" + to_string(side) +
-                         "' (periodic.axis: x makes it periodic), got kind '" + to_string(seg.kind) + "'");
+        throw InputError(where(spec, seg.line) + ": " + key(s) + "expected no segment on side '" +
+                         to_string(side) + "' (periodic.axis: x makes it periodic), got kind '" +
+                         to_string(seg.kind) + "'");
       }
       int covered = 0;
       for (int k = 0; k < n; ++k) {
         if (seg.from && mid[k] < *seg.from) continue;
         if (seg.to && mid[k] > *seg.to) continue;
         if (faces[k] >= 0) {
-          throw InputError(where(spec, seg.line) + ": " + key(s) + "expected faces not covered by another segment, got "
-                           "an overlap with boundaries[" + std::to_string(faces[k]) + "] (line " +
-                           std::to_string(segments_[faces[k]].line) + ") on side '" + to_string(side) + "' at " +
-                           (along_x ? "x = " : "y = ") + std::to_string(mid[k]));
+          throw InputError(where(spec, seg.line) + ": " + key(s) +
+                           "expected faces not covered by another segment, got "
+                           "an overlap with boundaries[" +
+                           std::to_string(faces[k]) + "] (line " + std::to_string(segments_[faces[k]].line) +
+                           ") on side '" + to_string(side) + "' at " + (along_x ? "x = " : "y = ") +
+                           std::to_string(mid[k]));
         }
         faces[k] = static_cast<int>(s);
         ++covered;
       }
       if (covered == 0) {
-        throw InputError(where(spec, seg.line) + ": " + key(s) + "expected 'from'/'to' enclosing at least one face "
-                         "centre of side '" + to_string(side) + "' (" + std::to_string(mid.front()) + " to " +
+        throw InputError(where(spec, seg.line) + ": " + key(s) +
+                         "expected 'from'/'to' enclosing at least one face "
+                         "centre of side '" +
+                         to_string(side) + "' (" + std::to_string(mid.front()) + " to " +
                          std::to_string(mid.back()) + "), got none");
       }
     }

@@ -12,11 +12,11 @@ namespace wallrans {
 /// One boundary face of an owned cell (i, j). `area` points out of the domain.
 struct BoundaryFace {
   Side side;
-  int index;       ///< position along the side: i for bottom/top, j for left/right
-  int i, j;        ///< the owned cell next to the face
-  int i2, j2;      ///< the next cell inwards along the grid line (valid if has_second)
+  int index;   ///< position along the side: i for bottom/top, j for left/right
+  int i, j;    ///< the owned cell next to the face
+  int i2, j2;  ///< the next cell inwards along the grid line (valid if has_second)
   bool has_second;
-  Vec2 area;       ///< outward area vector
+  Vec2 area;  ///< outward area vector
   Vec2 centre;
 };
 

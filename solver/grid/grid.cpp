@@ -48,18 +48,19 @@ Grid::Grid(MPI_Comm comm, NodeCoordinates nodes, bool periodic_x)
     for (int i = 0; i < nx; ++i) {
       double area = 0.0;
       Vec2 c;
-      quad_metrics(nodes_.at(i, j), nodes_.at(i + 1, j), nodes_.at(i + 1, j + 1), nodes_.at(i, j + 1),
-                   area, c);
+      quad_metrics(nodes_.at(i, j), nodes_.at(i + 1, j), nodes_.at(i + 1, j + 1), nodes_.at(i, j + 1), area,
+                   c);
       if (!(area > 0.0)) {
-        throw InputError("key 'grid': expected counter-clockwise cells with positive volume, got non-positive "
-                         "volume " + std::to_string(area) + " at cell (" + std::to_string(i) + ", " +
-                         std::to_string(j) + ")");
+        throw InputError(
+            "key 'grid': expected counter-clockwise cells with positive volume, got non-positive "
+            "volume " +
+            std::to_string(area) + " at cell (" + std::to_string(i) + ", " + std::to_string(j) + ")");
       }
     }
   }
-  check_petsc(DMDACreate2d(comm_, periodic_x_ ? DM_BOUNDARY_PERIODIC : DM_BOUNDARY_NONE,
-                           DM_BOUNDARY_NONE, DMDA_STENCIL_STAR, nx, ny, PETSC_DECIDE, PETSC_DECIDE, 1,
-                           1, nullptr, nullptr, dm_.out()));
+  check_petsc(DMDACreate2d(comm_, periodic_x_ ? DM_BOUNDARY_PERIODIC : DM_BOUNDARY_NONE, DM_BOUNDARY_NONE,
+                           DMDA_STENCIL_STAR, nx, ny, PETSC_DECIDE, PETSC_DECIDE, 1, 1, nullptr, nullptr,
+                           dm_.out()));
   check_petsc(DMSetFromOptions(dm_.get()));
   check_petsc(DMSetUp(dm_.get()));
   check_petsc(DMDAGetCorners(dm_.get(), &xs_, &ys_, nullptr, &xm_, &ym_, nullptr));
@@ -80,8 +81,7 @@ Grid::Grid(MPI_Comm comm, NodeCoordinates nodes, bool periodic_x)
     for (int i = gxs_ - 1; i < gxs_ + gxm_; ++i) {
       const Vec2 a = node(i + 1, j), b = node(i + 1, j + 1);
       const Vec2 edge = b - a;  // runs towards +j; the normal (dy, -dx) points towards +i
-      east_[static_cast<size_t>(j - gys_) * (gxm_ + 1) + (i - gxs_ + 1)] = {{edge.y, -edge.x},
-                                                                            0.5 * (a + b)};
+      east_[static_cast<size_t>(j - gys_) * (gxm_ + 1) + (i - gxs_ + 1)] = {{edge.y, -edge.x}, 0.5 * (a + b)};
     }
   }
   north_.resize(static_cast<size_t>(gxm_) * (gym_ + 1));

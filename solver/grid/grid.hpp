@@ -97,8 +97,7 @@ class Grid {
 class Field {
  public:
   Field() = default;
-  explicit Field(const Grid& grid, double value = 0.0)
-      : grid_(&grid), data_(grid.n_ghosted(), value) {}
+  explicit Field(const Grid& grid, double value = 0.0) : grid_(&grid), data_(grid.n_ghosted(), value) {}
   double& operator()(int i, int j) { return data_[grid_->local(i, j)]; }
   double operator()(int i, int j) const { return data_[grid_->local(i, j)]; }
   std::vector<double>& data() { return data_; }

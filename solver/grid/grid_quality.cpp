@@ -17,11 +17,14 @@ GridQuality measure_quality(const Grid& grid) {
       min_volume = std::min(min_volume, grid.volume(i, j));
       const double faces[4] = {norm(grid.east_face(i, j).area), norm(grid.east_face(i - 1, j).area),
                                norm(grid.north_face(i, j).area), norm(grid.north_face(i, j - 1).area)};
-      max_aspect = std::max(max_aspect, *std::max_element(faces, faces + 4) / *std::min_element(faces, faces + 4));
+      max_aspect =
+          std::max(max_aspect, *std::max_element(faces, faces + 4) / *std::min_element(faces, faces + 4));
       if (grid.has_east(i))
-        max_angle = std::max(max_angle, angle(grid.east_face(i, j).area, grid.centre(i + 1, j) - grid.centre(i, j)));
+        max_angle =
+            std::max(max_angle, angle(grid.east_face(i, j).area, grid.centre(i + 1, j) - grid.centre(i, j)));
       if (grid.has_north(j))
-        max_angle = std::max(max_angle, angle(grid.north_face(i, j).area, grid.centre(i, j + 1) - grid.centre(i, j)));
+        max_angle =
+            std::max(max_angle, angle(grid.north_face(i, j).area, grid.centre(i, j + 1) - grid.centre(i, j)));
     }
   }
   return {-grid.global_max(-min_volume), grid.global_max(max_aspect), grid.global_max(max_angle)};

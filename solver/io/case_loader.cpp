@@ -35,8 +35,8 @@ constexpr std::array all_schemes{ConvectionScheme::upwind, ConvectionScheme::lin
 // "none" is the absence of the periodic section, so it is not a value a case file can name.
 constexpr std::array periodic_axes{PeriodicAxis::x};
 // Models are added here as they are implemented.
-constexpr std::array<const char*, 5> turbulence_models{"laminar", "mixing_length", "k_equation", "spalart_allmaras",
-                                                       "baldwin_barth"};
+constexpr std::array<const char*, 5> turbulence_models{"laminar", "mixing_length", "k_equation",
+                                                       "spalart_allmaras", "baldwin_barth"};
 constexpr std::array<const char*, 3> sa_variants{"negative", "standard", "noft2"};
 constexpr std::array<const char*, 2> k_variants{"length_scale", "structure"};
 
@@ -53,10 +53,14 @@ const char* name_of(BoundaryKind kind) { return to_string(kind); }
 
 const char* name_of(GridGenerator generator) {
   switch (generator) {
-    case GridGenerator::channel: return "channel";
-    case GridGenerator::cavity: return "cavity";
-    case GridGenerator::plate: return "plate";
-    case GridGenerator::skewed_box: return "skewed_box";
+    case GridGenerator::channel:
+      return "channel";
+    case GridGenerator::cavity:
+      return "cavity";
+    case GridGenerator::plate:
+      return "plate";
+    case GridGenerator::skewed_box:
+      return "skewed_box";
   }
   return "?";
 }
@@ -67,10 +71,14 @@ const char* name_of(Coupling coupling) { return coupling == Coupling::simple ? "
 
 const char* name_of(ConvectionScheme scheme) {
   switch (scheme) {
-    case ConvectionScheme::upwind: return "upwind";
-    case ConvectionScheme::linear_upwind: return "linear_upwind";
-    case ConvectionScheme::bounded_linear_upwind: return "bounded_linear_upwind";
-    case ConvectionScheme::central: return "central";
+    case ConvectionScheme::upwind:
+      return "upwind";
+    case ConvectionScheme::linear_upwind:
+      return "linear_upwind";
+    case ConvectionScheme::bounded_linear_upwind:
+      return "bounded_linear_upwind";
+    case ConvectionScheme::central:
+      return "central";
   }
   return "?";
 }
@@ -260,8 +268,8 @@ std::vector<BoundarySegmentSpec> read_boundaries(const Value& value, const FlowS
 }
 
 TurbulenceSpec read_turbulence(const Value& value) {
-  const Section section = value.section({"model", "variant", "freestream_viscosity_ratio", "freestream_intensity",
-                                         "outer_length", "relax", "convection"});
+  const Section section = value.section({"model", "variant", "freestream_viscosity_ratio",
+                                         "freestream_intensity", "outer_length", "relax", "convection"});
   TurbulenceSpec turbulence;
   turbulence.line = value.line();
   if (const auto model = section.find("model")) {
@@ -284,15 +292,19 @@ TurbulenceSpec read_turbulence(const Value& value) {
       for (const char* name : k_variants) known = known || turbulence.variant == name;
       if (!known) variant->fail(one_of(k_variants));
     } else {
-      variant->fail("no variant for model " + turbulence.model + " (variants exist for spalart_allmaras and k_equation)");
+      variant->fail("no variant for model " + turbulence.model +
+                    " (variants exist for spalart_allmaras and k_equation)");
     }
   }
   if (turbulence.variant.empty()) turbulence.variant = is_sa ? "negative" : is_k ? "length_scale" : "";
-  turbulence.freestream_viscosity_ratio = number_or(section, "freestream_viscosity_ratio",
-                                                    turbulence.freestream_viscosity_ratio, positive_number, is_positive);
-  turbulence.freestream_intensity = number_or(section, "freestream_intensity", turbulence.freestream_intensity,
-                                              "a number in [0, 1]", [](double x) { return x >= 0.0 && x <= 1.0; });
-  if (const auto outer = section.find("outer_length")) turbulence.outer_length = outer->number(positive_number, is_positive);
+  turbulence.freestream_viscosity_ratio =
+      number_or(section, "freestream_viscosity_ratio", turbulence.freestream_viscosity_ratio, positive_number,
+                is_positive);
+  turbulence.freestream_intensity =
+      number_or(section, "freestream_intensity", turbulence.freestream_intensity, "a number in [0, 1]",
+                [](double x) { return x >= 0.0 && x <= 1.0; });
+  if (const auto outer = section.find("outer_length"))
+    turbulence.outer_length = outer->number(positive_number, is_positive);
   if (turbulence.model == "mixing_length" && !turbulence.outer_length) {
     section.missing("outer_length", "a number > 0 (the mixing_length model caps l at 0.09 outer_length)");
   }
@@ -333,7 +345,8 @@ OutputSpec read_output(const Value& value) {
                                    [](int n) { return n >= 0; });
   if (const auto wall_data = section.find("wall_data")) output.wall_data = wall_data->boolean();
   if (const auto stations = section.find("profiles_at_x")) {
-    for (const Value& x : stations->items("a list of x stations [m]")) output.profiles_at_x.push_back(x.number(any_number));
+    for (const Value& x : stations->items("a list of x stations [m]"))
+      output.profiles_at_x.push_back(x.number(any_number));
   }
   return output;
 }
@@ -341,10 +354,13 @@ OutputSpec read_output(const Value& value) {
 CheckpointSpec read_checkpoint(const Value& value) {
   const Section section = value.section({"every", "keep", "restart_from", "walltime"});
   CheckpointSpec checkpoint;
-  checkpoint.every = integer_or(section, "every", checkpoint.every, "an integer >= 0", [](int n) { return n >= 0; });
-  checkpoint.keep = integer_or(section, "keep", checkpoint.keep, "an integer >= 1", [](int n) { return n >= 1; });
+  checkpoint.every =
+      integer_or(section, "every", checkpoint.every, "an integer >= 0", [](int n) { return n >= 0; });
+  checkpoint.keep =
+      integer_or(section, "keep", checkpoint.keep, "an integer >= 1", [](int n) { return n >= 1; });
   if (section.has("restart_from")) checkpoint.restart_from = text_or(section, "restart_from", "", false);
-  if (const auto walltime = section.find("walltime")) checkpoint.walltime = walltime->number(positive_number, is_positive);
+  if (const auto walltime = section.find("walltime"))
+    checkpoint.walltime = walltime->number(positive_number, is_positive);
   return checkpoint;
 }
 
@@ -400,8 +416,8 @@ void put_boundaries(YAML::Emitter& out, const std::vector<BoundarySegmentSpec>& 
 
 CaseSpec parse_case_text(const std::string& text, const std::string& source_name) {
   const Value document = yaml_reader::parse_document(text, source_name);
-  const Section top = document.section(
-      {"title", "flow", "grid", "boundaries", "periodic", "turbulence", "iterations", "output", "checkpoint"});
+  const Section top = document.section({"title", "flow", "grid", "boundaries", "periodic", "turbulence",
+                                        "iterations", "output", "checkpoint"});
   CaseSpec spec;
   spec.source_file = source_name;
   spec.title = text_or(top, "title", spec.title, false);

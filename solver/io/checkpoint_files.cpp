@@ -71,7 +71,6 @@ std::string escape_xml(const std::string& text) {
   return out;
 }
 
-
 // XDMF 3 "DataItem" of doubles stored in the HDF5 file, dimensions slowest first.
 std::string data_item(const std::string& h5_file_name, const std::string& dataset, int n_slow, int n_fast) {
   std::ostringstream out;

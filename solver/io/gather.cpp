@@ -4,7 +4,8 @@
 
 namespace wallrans {
 
-std::vector<std::vector<double>> gather_rows(MPI_Comm comm, const std::vector<std::vector<double>>& rows, int width) {
+std::vector<std::vector<double>> gather_rows(MPI_Comm comm, const std::vector<std::vector<double>>& rows,
+                                             int width) {
   int rank = 0, size = 1;
   check_mpi(MPI_Comm_rank(comm, &rank));
   check_mpi(MPI_Comm_size(comm, &size));
@@ -19,10 +20,12 @@ std::vector<std::vector<double>> gather_rows(MPI_Comm comm, const std::vector<st
     total += counts[k];
   }
   std::vector<double> all(rank == 0 ? total : 0);
-  check_mpi(MPI_Gatherv(flat.data(), count, MPI_DOUBLE, all.data(), counts.data(), offsets.data(), MPI_DOUBLE, 0, comm));
+  check_mpi(MPI_Gatherv(flat.data(), count, MPI_DOUBLE, all.data(), counts.data(), offsets.data(), MPI_DOUBLE,
+                        0, comm));
   std::vector<std::vector<double>> out;
   if (rank == 0) {
-    for (int k = 0; k + width <= total; k += width) out.emplace_back(all.begin() + k, all.begin() + k + width);
+    for (int k = 0; k + width <= total; k += width)
+      out.emplace_back(all.begin() + k, all.begin() + k + width);
   }
   return out;
 }

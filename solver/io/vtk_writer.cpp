@@ -60,8 +60,7 @@ std::string attempt(Step&& step) {
 bool is_plain_name(const std::string& name) {
   if (name.empty()) return false;
   for (const char c : name) {
-    if (static_cast<unsigned char>(c) < 0x20 || c == '<' || c == '>' || c == '&' || c == '"' ||
-        c == '\'')
+    if (static_cast<unsigned char>(c) < 0x20 || c == '<' || c == '>' || c == '&' || c == '"' || c == '\'')
       return false;
   }
   return true;
@@ -95,7 +94,6 @@ void check_request(const Grid& grid, const std::vector<NamedScalar>& scalars,
                                     : std::vector<const Field*>{nullptr});
   }
 }
-
 
 // Local. Creates `directory` (and parents) unless it already is a directory.
 void make_directory(const fs::path& directory) {
@@ -220,8 +218,8 @@ std::string index_document(const Grid& grid, const std::vector<NamedScalar>& sca
       << "    </PPoints>\n";
   for (size_t rank = 0; rank < extents.size() / 4; ++rank) {
     const int* e = &extents[4 * rank];
-    out << "    <Piece Extent=\"" << e[0] << ' ' << e[1] << ' ' << e[2] << ' ' << e[3]
-        << " 0 0\" Source=\"" << piece_file_name(basename, static_cast<int>(rank)) << "\"/>\n";
+    out << "    <Piece Extent=\"" << e[0] << ' ' << e[1] << ' ' << e[2] << ' ' << e[3] << " 0 0\" Source=\""
+        << piece_file_name(basename, static_cast<int>(rank)) << "\"/>\n";
   }
   out << "  </PStructuredGrid>\n"
       << "</VTKFile>\n";
@@ -258,7 +256,8 @@ std::string write_vtk_fields(const Grid& grid, const std::vector<NamedScalar>& s
   std::string index_error;
   if (rank == 0) {
     index_error = attempt([&] {
-      write_file_atomically(index_path, index_document(grid, scalars, vectors, basename, extents), "vtk output");
+      write_file_atomically(index_path, index_document(grid, scalars, vectors, basename, extents),
+                            "vtk output");
     });
   }
   agree(comm, index_error, "writing the index file");

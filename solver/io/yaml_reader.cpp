@@ -80,14 +80,17 @@ std::string join(std::initializer_list<const char*> names) {
 
 std::string describe(const YAML::Node& node) {
   switch (node.Type()) {
-    case YAML::NodeType::Undefined: return "nothing";
-    case YAML::NodeType::Null: return "an empty value";
+    case YAML::NodeType::Undefined:
+      return "nothing";
+    case YAML::NodeType::Null:
+      return "an empty value";
     case YAML::NodeType::Scalar:
       if (node.Tag() == "!") return shorten(one_line("\"" + node.Scalar() + "\""));
       if (node.Tag() != "?") return shorten(one_line(node.Tag() + " " + node.Scalar()));
       return shorten(one_line(node.Scalar()));
     case YAML::NodeType::Sequence:
-    case YAML::NodeType::Map: break;
+    case YAML::NodeType::Map:
+      break;
   }
   YAML::Emitter out;
   out.SetSeqFormat(YAML::Flow);

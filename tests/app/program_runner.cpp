@@ -47,8 +47,8 @@ ProgramResult run_command(const std::string& launcher, const fs::path& directory
 ScratchDirectory::ScratchDirectory(const std::string& prefix) {
   std::random_device entropy;
   for (int attempt = 0; attempt < 100; ++attempt) {
-    const fs::path candidate =
-        fs::temp_directory_path() / (prefix + "_" + std::to_string(entropy()) + "_" + std::to_string(entropy()));
+    const fs::path candidate = fs::temp_directory_path() /
+                               (prefix + "_" + std::to_string(entropy()) + "_" + std::to_string(entropy()));
     if (fs::create_directory(candidate)) {
       path_ = candidate;
       return;
@@ -68,7 +68,8 @@ ProgramResult run_program(const fs::path& directory, const std::vector<std::stri
 }
 
 ProgramResult run_program_mpi(int ranks, const fs::path& directory, const std::vector<std::string>& arguments,
-                              const fs::path& capture_directory, const std::string& label, const std::string& environment) {
+                              const fs::path& capture_directory, const std::string& label,
+                              const std::string& environment) {
   // `environment` (e.g. "NAME=value") is exported to the launcher and so to every rank.
   const std::string launcher = (environment.empty() ? std::string() : "env " + environment + " ") +
                                quoted(WALLRANS_MPIEXEC) + " " + WALLRANS_MPIEXEC_NUMPROC_FLAG + " " +

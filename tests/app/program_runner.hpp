@@ -36,8 +36,9 @@ ProgramResult run_program(const std::filesystem::path& directory, const std::vec
 
 /// As run_program, but under `mpiexec -n ranks` (the MPI launcher found by CMake).
 ProgramResult run_program_mpi(int ranks, const std::filesystem::path& directory,
-                              const std::vector<std::string>& arguments, const std::filesystem::path& capture_directory,
-                              const std::string& label, const std::string& environment = "");
+                              const std::vector<std::string>& arguments,
+                              const std::filesystem::path& capture_directory, const std::string& label,
+                              const std::string& environment = "");
 
 /// The whole content of a file; empty if it cannot be read.
 std::string read_text(const std::filesystem::path& path);

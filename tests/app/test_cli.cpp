@@ -72,7 +72,8 @@ std::vector<BadCase> bad_cases() {
                    with(good_case, "0.01", "-0.01"),
                    "kinematic_viscosity",
                    {"key 'flow.kinematic_viscosity'", "> 0", "-0.01"}});
-  cases.push_back({"zero_cells", with(good_case, "[8, 8]", "[0, 8]"), "cells:", {"key 'grid.cells'", "[0, 8]"}});
+  cases.push_back(
+      {"zero_cells", with(good_case, "[8, 8]", "[0, 8]"), "cells:", {"key 'grid.cells'", "[0, 8]"}});
   cases.push_back({"unknown_kind",
                    with(good_case, "kind: wall}\n  - {side: left", "kind: floor}\n  - {side: left"),
                    "floor",
@@ -82,10 +83,11 @@ std::vector<BadCase> bad_cases() {
                                   "  - {side: bottom, kind: wall, to: 0.6}\n"
                                   "  - {side: bottom, kind: slip, from: 0.4}\n");
     // The later segment is reported at its own line and names the earlier one's line.
-    cases.push_back({"overlapping_segments",
-                     text,
-                     "from: 0.4",
-                     {"key 'boundaries[", "side 'bottom'", "line " + std::to_string(line_containing(text, "to: 0.6"))}});
+    cases.push_back(
+        {"overlapping_segments",
+         text,
+         "from: 0.4",
+         {"key 'boundaries[", "side 'bottom'", "line " + std::to_string(line_containing(text, "to: 0.6"))}});
   }
   cases.push_back({"uncovered_gap",
                    with(good_case, "  - {side: bottom, kind: wall}\n",
@@ -98,11 +100,12 @@ std::vector<BadCase> bad_cases() {
                         "periodic: {axis: x}\nboundaries:\n"),
                    "side: left",
                    {"key 'boundaries[2].side'", "periodic"}});
-  cases.push_back({"segment_covering_no_face",
-                   with(good_case, "  - {side: bottom, kind: wall}\n",
-                        "  - {side: bottom, kind: wall}\n  - {side: bottom, kind: slip, from: 2.0, to: 3.0}\n"),
-                   "from: 2.0",
-                   {"key 'boundaries[", "at least one face"}});
+  cases.push_back(
+      {"segment_covering_no_face",
+       with(good_case, "  - {side: bottom, kind: wall}\n",
+            "  - {side: bottom, kind: wall}\n  - {side: bottom, kind: slip, from: 2.0, to: 3.0}\n"),
+       "from: 2.0",
+       {"key 'boundaries[", "at least one face"}});
   // Two-sided clustering over 8 cells allows a first cell of at most 1/8 of the side.
   cases.push_back({"impossible_first_cell_height",
                    with(good_case, "  cells: [8, 8]\n", "  cells: [8, 8]\n  first_cell_height: 0.5\n"),
@@ -212,16 +215,17 @@ TEST_P(BadArguments, ExitsTwoWithOneLineAndWritesNothing) {
 
 INSTANTIATE_TEST_SUITE_P(
     Program, BadArguments,
-    ::testing::Values(BadCommandLine{"unknown_option", {"run", "good.yaml", "--bogus"}, {"'--bogus'"}},
-                      BadCommandLine{"non_numeric_iterations",
-                                     {"run", "good.yaml", "--max-iterations", "abc"},
-                                     {"--max-iterations", "'abc'"}},
-                      BadCommandLine{"zero_iterations", {"run", "good.yaml", "--max-iterations", "0"}, {"'0'"}},
-                      BadCommandLine{"option_without_value", {"run", "good.yaml", "--output-dir"}, {"--output-dir"}},
-                      BadCommandLine{"no_command", {}, {"command"}},
-                      BadCommandLine{"unknown_command", {"frobnicate", "good.yaml"}, {"'frobnicate'"}},
-                      BadCommandLine{"two_case_files", {"run", "good.yaml", "good.yaml"}, {"one case file"}},
-                      BadCommandLine{"no_case_file", {"check"}, {"one case file"}}),
+    ::testing::Values(
+        BadCommandLine{"unknown_option", {"run", "good.yaml", "--bogus"}, {"'--bogus'"}},
+        BadCommandLine{"non_numeric_iterations",
+                       {"run", "good.yaml", "--max-iterations", "abc"},
+                       {"--max-iterations", "'abc'"}},
+        BadCommandLine{"zero_iterations", {"run", "good.yaml", "--max-iterations", "0"}, {"'0'"}},
+        BadCommandLine{"option_without_value", {"run", "good.yaml", "--output-dir"}, {"--output-dir"}},
+        BadCommandLine{"no_command", {}, {"command"}},
+        BadCommandLine{"unknown_command", {"frobnicate", "good.yaml"}, {"'frobnicate'"}},
+        BadCommandLine{"two_case_files", {"run", "good.yaml", "good.yaml"}, {"one case file"}},
+        BadCommandLine{"no_case_file", {"check"}, {"one case file"}}),
     [](const ::testing::TestParamInfo<BadCommandLine>& info) { return info.param.name; });
 
 TEST(Program, CheckDescribesValidCaseAndWritesNothing) {
@@ -230,7 +234,8 @@ TEST(Program, CheckDescribesValidCaseAndWritesNothing) {
   write_text(run_directory / "good.yaml", good_case);
   const auto before = snapshot(run_directory);
 
-  const ProgramResult result = run_program(run_directory, {"check", "good.yaml"}, scratch.path() / "logs", "check");
+  const ProgramResult result =
+      run_program(run_directory, {"check", "good.yaml"}, scratch.path() / "logs", "check");
 
   EXPECT_EQ(result.exit_status, 0);
   EXPECT_EQ(result.err, "");

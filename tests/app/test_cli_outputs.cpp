@@ -73,7 +73,8 @@ std::vector<double> scalar_array(vtkCellData* cells, const char* name) {
     throw std::runtime_error(std::string("fields.pvts: no one-component cell array '") + name + "'");
   }
   std::vector<double> values(static_cast<size_t>(array->GetNumberOfTuples()));
-  for (vtkIdType k = 0; k < array->GetNumberOfTuples(); ++k) values[static_cast<size_t>(k)] = array->GetComponent(k, 0);
+  for (vtkIdType k = 0; k < array->GetNumberOfTuples(); ++k)
+    values[static_cast<size_t>(k)] = array->GetComponent(k, 0);
   return values;
 }
 
@@ -103,7 +104,8 @@ CellFields read_fields(const fs::path& pvts) {
   fields.n_velocity_components = velocity->GetNumberOfComponents();
   for (vtkIdType k = 0; k < velocity->GetNumberOfTuples(); ++k) {
     std::array<double, 3> value{0.0, 0.0, 0.0};
-    for (int c = 0; c < std::min(3, fields.n_velocity_components); ++c) value[c] = velocity->GetComponent(k, c);
+    for (int c = 0; c < std::min(3, fields.n_velocity_components); ++c)
+      value[c] = velocity->GetComponent(k, c);
     fields.velocity.push_back(value);
     fields.cell_index.push_back({int(index->GetComponent(k, 0)), int(index->GetComponent(k, 1))});
   }
@@ -116,7 +118,9 @@ int column_of(const wallrans::CsvTable& table, const std::string& name) {
   return static_cast<int>(found - table.columns.begin());
 }
 
-bool contains(const std::string& text, const std::string& part) { return text.find(part) != std::string::npos; }
+bool contains(const std::string& text, const std::string& part) {
+  return text.find(part) != std::string::npos;
+}
 
 // One converged 2-rank run shared by the tests of this suite (it takes a few seconds).
 class CavityRun : public ::testing::Test {
@@ -206,13 +210,15 @@ TEST_F(CavityRun, HistoryRecordsEveryIterationUntilConvergence) {
   EXPECT_EQ(std::vector<std::string>(history.columns.begin(), history.columns.begin() + 4),
             (std::vector<std::string>{"iteration", "u_residual", "v_residual", "continuity_residual"}));
   ASSERT_FALSE(history.rows.empty());
-  for (size_t r = 0; r < history.rows.size(); ++r) EXPECT_EQ(history.rows[r][0], double(r + 1)) << "row " << r;
+  for (size_t r = 0; r < history.rows.size(); ++r)
+    EXPECT_EQ(history.rows[r][0], double(r + 1)) << "row " << r;
   // The run stops at the first iteration where every normalised residual is below residual_drop.
   auto all_below = [](const std::vector<double>& row) {
     return row[1] < residual_drop && row[2] < residual_drop && row[3] < residual_drop;
   };
   EXPECT_TRUE(all_below(history.rows.back()));
-  for (size_t r = 0; r + 1 < history.rows.size(); ++r) EXPECT_FALSE(all_below(history.rows[r])) << "row " << r;
+  for (size_t r = 0; r + 1 < history.rows.size(); ++r)
+    EXPECT_FALSE(all_below(history.rows[r])) << "row " << r;
 
   const std::string summary = read_text(output() / "summary.json");
   EXPECT_TRUE(contains(summary, "\"converged\": true")) << summary;
@@ -222,8 +228,8 @@ TEST_F(CavityRun, HistoryRecordsEveryIterationUntilConvergence) {
 
 TEST_F(CavityRun, WallDataCoversAllFourWalls) {
   const wallrans::CsvTable wall = wallrans::read_csv((output() / "wall.csv").string());
-  EXPECT_EQ(wall.columns, (std::vector<std::string>{"x", "y", "cf", "cp", "wall_shear_stress", "first_cell_distance",
-                                                     "first_cell_y_plus"}));
+  EXPECT_EQ(wall.columns, (std::vector<std::string>{"x", "y", "cf", "cp", "wall_shear_stress",
+                                                    "first_cell_distance", "first_cell_y_plus"}));
   ASSERT_EQ(wall.rows.size(), 4u * n_cells);
   const int x = column_of(wall, "x"), y = column_of(wall, "y"), cf = column_of(wall, "cf");
   const int distance = column_of(wall, "first_cell_distance");
@@ -259,8 +265,8 @@ TEST_F(CavityRun, BadCaseIntoExistingRunDirectoryChangesNothing) {
   ASSERT_TRUE(before.count("summary.json"));
   write_text(scratch() / "bad.yaml", read_text(scratch() / "cavity.yaml") + "bogus_key: 1\n");
 
-  const ProgramResult bad =
-      run_program(scratch(), {"run", "bad.yaml", "--output-dir", "previous_run"}, scratch() / "logs", "bad_rerun");
+  const ProgramResult bad = run_program(scratch(), {"run", "bad.yaml", "--output-dir", "previous_run"},
+                                        scratch() / "logs", "bad_rerun");
 
   EXPECT_EQ(bad.exit_status, 2) << bad.err;
   EXPECT_EQ(snapshot(previous), before) << "a failed run must not touch an earlier run's files";
@@ -269,7 +275,8 @@ TEST_F(CavityRun, BadCaseIntoExistingRunDirectoryChangesNothing) {
 TEST_F(CavityRun, IterationCapGivesExitThreeWithOutputs) {
   constexpr int cap = 5;
   const ProgramResult capped = run_program(
-      scratch(), {"run", "cavity.yaml", "--output-dir", "capped", "--max-iterations", std::to_string(cap), "--quiet"},
+      scratch(),
+      {"run", "cavity.yaml", "--output-dir", "capped", "--max-iterations", std::to_string(cap), "--quiet"},
       scratch() / "logs", "capped");
   EXPECT_EQ(capped.exit_status, 3) << capped.err;
   const wallrans::CsvTable history = wallrans::read_csv((scratch() / "capped" / "history.csv").string());
@@ -284,10 +291,12 @@ TEST_F(CavityRun, IterationCapGivesExitThreeWithOutputs) {
 TEST(CavityRanks, OneAndTwoRanksAgree) {
   const ScratchDirectory scratch("wallrans_cli_ranks");
   write_text(scratch.path() / "tight.yaml", cavity_case(tight_residual_drop));
-  const ProgramResult one = run_program(scratch.path(), {"run", "tight.yaml", "--output-dir", "np1", "--quiet"},
-                                        scratch.path() / "logs", "np1");
-  const ProgramResult two = run_program_mpi(2, scratch.path(), {"run", "tight.yaml", "--output-dir", "np2", "--quiet"},
-                                            scratch.path() / "logs", "np2");
+  const ProgramResult one =
+      run_program(scratch.path(), {"run", "tight.yaml", "--output-dir", "np1", "--quiet"},
+                  scratch.path() / "logs", "np1");
+  const ProgramResult two =
+      run_program_mpi(2, scratch.path(), {"run", "tight.yaml", "--output-dir", "np2", "--quiet"},
+                      scratch.path() / "logs", "np2");
   ASSERT_EQ(one.exit_status, 0) << one.err;
   ASSERT_EQ(two.exit_status, 0) << two.err;
   const CellFields a = read_fields(scratch.path() / "np1" / "fields.pvts");
@@ -303,8 +312,8 @@ TEST(CavityRanks, OneAndTwoRanksAgree) {
   }
   double max_du = 0.0, max_dp = 0.0;
   for (size_t k = 0; k < a.velocity.size(); ++k) {
-    max_du = std::max(
-        {max_du, std::abs(a.velocity[k][0] - b.velocity[k][0]), std::abs(a.velocity[k][1] - b.velocity[k][1])});
+    max_du = std::max({max_du, std::abs(a.velocity[k][0] - b.velocity[k][0]),
+                       std::abs(a.velocity[k][1] - b.velocity[k][1])});
     max_dp = std::max(max_dp, std::abs((a.pressure[k] - mean_a) - (b.pressure[k] - mean_b)));
   }
   EXPECT_LE(max_du, 1e-6 * lid_speed);
@@ -319,8 +328,8 @@ TEST(TurbulentRun, WritesModelFieldsWallYplusAndProfiles) {
   ScratchDirectory scratch("wallrans_cli_turbulent");
   const ProgramResult result =
       run_program_mpi(2, scratch.path(),
-                      {"run", std::string(WALLRANS_SOURCE_DIR) + "/configs/channel_sa_re180.yaml", "--output-dir", "out",
-                       "--max-iterations", "500", "--quiet"},
+                      {"run", std::string(WALLRANS_SOURCE_DIR) + "/configs/channel_sa_re180.yaml",
+                       "--output-dir", "out", "--max-iterations", "500", "--quiet"},
                       scratch.path() / "logs", "turbulent");
   ASSERT_EQ(result.exit_status, 3) << result.out << result.err;  // iteration cap
   const fs::path out = scratch.path() / "out";
@@ -349,7 +358,7 @@ TEST(TurbulentRun, WritesModelFieldsWallYplusAndProfiles) {
   EXPECT_EQ(wall.rows.size(), 8u);  // 4 faces on each of the two walls
   for (const auto& row : wall.rows) EXPECT_GT(row[yp], 0.0);
   const auto profile = wallrans::read_csv((out / "profile_0.csv").string());
-  EXPECT_EQ(profile.columns, (std::vector<std::string>{"x", "y", "wall_distance", "y_plus", "u_tangential", "u_plus",
-                                                       "nut_over_nu"}));
+  EXPECT_EQ(profile.columns, (std::vector<std::string>{"x", "y", "wall_distance", "y_plus", "u_tangential",
+                                                       "u_plus", "nut_over_nu"}));
   EXPECT_EQ(profile.rows.size(), 128u);
 }

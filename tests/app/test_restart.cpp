@@ -43,8 +43,8 @@ std::vector<double> cell_array(const fs::path& pvts, const char* name) {
   return values;
 }
 
-ProgramResult run_mpi(int ranks, const fs::path& dir, const std::vector<std::string>& args, const std::string& label,
-                      const std::string& environment = "") {
+ProgramResult run_mpi(int ranks, const fs::path& dir, const std::vector<std::string>& args,
+                      const std::string& label, const std::string& environment = "") {
   return run_program_mpi(ranks, dir, args, dir / "logs", label, environment);
 }
 
@@ -53,17 +53,19 @@ ProgramResult run_mpi(int ranks, const fs::path& dir, const std::vector<std::str
 TEST(Restart, StraightAndRestartedRunsAreBitIdentical) {
   ScratchDirectory scratch("wallrans_restart_bits");
   // 2N = 60 iterations straight (checkpoints every 30), and N = 30 + restart + 30, on 2 ranks.
-  auto straight = run_mpi(2, scratch.path(),
-                          {"run", channel_case, "--output-dir", "straight", "--max-iterations", "60", "--quiet"},
-                          "straight");
+  auto straight = run_mpi(
+      2, scratch.path(),
+      {"run", channel_case, "--output-dir", "straight", "--max-iterations", "60", "--quiet"}, "straight");
   ASSERT_EQ(straight.exit_status, 3) << straight.err;  // iteration cap
-  auto first = run_mpi(2, scratch.path(), {"run", channel_case, "--output-dir", "split", "--max-iterations", "30", "--quiet"},
-                       "first");
+  auto first =
+      run_mpi(2, scratch.path(),
+              {"run", channel_case, "--output-dir", "split", "--max-iterations", "30", "--quiet"}, "first");
   ASSERT_EQ(first.exit_status, 3) << first.err;
-  ASSERT_TRUE(fs::exists(scratch.path() / "split" / "checkpoint_30.h5"));  // written at the end of a capped run
+  ASSERT_TRUE(
+      fs::exists(scratch.path() / "split" / "checkpoint_30.h5"));  // written at the end of a capped run
   auto second = run_mpi(2, scratch.path(),
-                        {"run", channel_case, "--output-dir", "split", "--max-iterations", "60", "--quiet", "--restart",
-                         "split/checkpoint_30.h5"},
+                        {"run", channel_case, "--output-dir", "split", "--max-iterations", "60", "--quiet",
+                         "--restart", "split/checkpoint_30.h5"},
                         "second");
   ASSERT_EQ(second.exit_status, 3) << second.err;
   for (const char* name : {"velocity", "pressure", "eddy_viscosity", "nu_tilde"}) {
@@ -83,16 +85,19 @@ TEST(Restart, StraightAndRestartedRunsAreBitIdentical) {
 
 TEST(Restart, AcrossRankCountsConvergesToTheSameSolution) {
   ScratchDirectory scratch("wallrans_restart_ranks");
-  auto reference = run_mpi(1, scratch.path(), {"run", channel_case, "--output-dir", "reference", "--quiet"}, "reference");
+  auto reference =
+      run_mpi(1, scratch.path(), {"run", channel_case, "--output-dir", "reference", "--quiet"}, "reference");
   ASSERT_EQ(reference.exit_status, 0) << reference.err;
   for (const auto& [from, to] : {std::pair{2, 1}, std::pair{1, 2}}) {
     const std::string dir = "from" + std::to_string(from) + "to" + std::to_string(to);
-    auto part = run_mpi(from, scratch.path(), {"run", channel_case, "--output-dir", dir, "--max-iterations", "300", "--quiet"},
-                        dir + "_a");
+    auto part =
+        run_mpi(from, scratch.path(),
+                {"run", channel_case, "--output-dir", dir, "--max-iterations", "300", "--quiet"}, dir + "_a");
     ASSERT_EQ(part.exit_status, 3) << part.err;
-    auto rest = run_mpi(to, scratch.path(),
-                        {"run", channel_case, "--output-dir", dir, "--quiet", "--restart", dir + "/checkpoint_300.h5"},
-                        dir + "_b");
+    auto rest = run_mpi(
+        to, scratch.path(),
+        {"run", channel_case, "--output-dir", dir, "--quiet", "--restart", dir + "/checkpoint_300.h5"},
+        dir + "_b");
     ASSERT_EQ(rest.exit_status, 0) << rest.err;
     const auto a = cell_array(scratch.path() / "reference" / "fields.pvts", "velocity");
     const auto b = cell_array(scratch.path() / dir / "fields.pvts", "velocity");
@@ -110,15 +115,15 @@ TEST(Restart, KillDuringCheckpointLeavesThePreviousOneIntact) {
   // the checkpoint of iteration 40.
   write_text(scratch.path() / "every20.yaml", read_text(channel_case) + "checkpoint: {every: 20, keep: 5}\n");
   auto killed = run_mpi(2, scratch.path(),
-                        {"run", "every20.yaml", "--output-dir", "run", "--max-iterations", "100", "--quiet"}, "killed",
-                        "WALLRANS_TEST_KILL_IN_CHECKPOINT=40:3");
+                        {"run", "every20.yaml", "--output-dir", "run", "--max-iterations", "100", "--quiet"},
+                        "killed", "WALLRANS_TEST_KILL_IN_CHECKPOINT=40:3");
   EXPECT_NE(killed.exit_status, 0);
   EXPECT_NE(killed.exit_status, 3);
   EXPECT_TRUE(fs::exists(scratch.path() / "run" / "checkpoint_20.h5"));
   EXPECT_FALSE(fs::exists(scratch.path() / "run" / "checkpoint_40.h5"));
   auto resumed = run_mpi(2, scratch.path(),
-                         {"run", "every20.yaml", "--output-dir", "run", "--max-iterations", "25", "--quiet", "--restart",
-                          "run/checkpoint_20.h5"},
+                         {"run", "every20.yaml", "--output-dir", "run", "--max-iterations", "25", "--quiet",
+                          "--restart", "run/checkpoint_20.h5"},
                          "resumed");
   EXPECT_EQ(resumed.exit_status, 3) << resumed.err;
 }
@@ -126,7 +131,8 @@ TEST(Restart, KillDuringCheckpointLeavesThePreviousOneIntact) {
 TEST(Restart, SigtermWritesARestartableCheckpointAndExitsFive) {
   ScratchDirectory scratch("wallrans_restart_sigterm");
   const fs::path out = scratch.path() / "run";
-  std::vector<std::string> args = {WALLRANS_PROGRAM, "run", channel_case, "--output-dir", out.string(), "--quiet"};
+  std::vector<std::string> args = {WALLRANS_PROGRAM, "run",        channel_case,
+                                   "--output-dir",   out.string(), "--quiet"};
   std::vector<char*> argv;
   for (auto& a : args) argv.push_back(a.data());
   argv.push_back(nullptr);
@@ -153,15 +159,17 @@ TEST(Restart, SigtermWritesARestartableCheckpointAndExitsFive) {
   }
   ASSERT_EQ(checkpoints, 1);
   EXPECT_NE(read_text(out / "summary.json").find("\"stopped_early\": true"), std::string::npos);
-  auto resumed = run_program(scratch.path(), {"run", channel_case, "--output-dir", "run", "--quiet", "--restart", newest,
-                                              "--max-iterations", "80"},
-                             scratch.path() / "logs", "resumed");
+  auto resumed = run_program(
+      scratch.path(),
+      {"run", channel_case, "--output-dir", "run", "--quiet", "--restart", newest, "--max-iterations", "80"},
+      scratch.path() / "logs", "resumed");
   EXPECT_TRUE(resumed.exit_status == 3 || resumed.exit_status == 0) << resumed.err;
 }
 
 TEST(Restart, BadCheckpointsGiveOneLineAndChangeNothing) {
   ScratchDirectory scratch("wallrans_restart_bad");
-  auto good = run_program(scratch.path(), {"run", channel_case, "--output-dir", "run", "--max-iterations", "10", "--quiet"},
+  auto good = run_program(scratch.path(),
+                          {"run", channel_case, "--output-dir", "run", "--max-iterations", "10", "--quiet"},
                           scratch.path() / "logs", "good");
   ASSERT_EQ(good.exit_status, 3) << good.err;
   const fs::path checkpoint = scratch.path() / "run" / "checkpoint_10.h5";
@@ -171,7 +179,8 @@ TEST(Restart, BadCheckpointsGiveOneLineAndChangeNothing) {
   const std::string bytes = read_text(checkpoint);
   write_text(scratch.path() / "truncated.h5", bytes.substr(0, bytes.size() / 2));
   write_text(scratch.path() / "coarse.yaml",
-             read_text(channel_case).replace(read_text(channel_case).find("cells: [4, 128]"), 15, "cells: [4, 64] "));
+             read_text(channel_case)
+                 .replace(read_text(channel_case).find("cells: [4, 128]"), 15, "cells: [4, 64] "));
   std::string laminar = read_text(channel_case);
   laminar.replace(laminar.find("model: spalart_allmaras"), 23, "model: mixing_length  ");
   laminar.replace(laminar.find("variant: negative"), 17, "outer_length: 1.0");
@@ -190,7 +199,8 @@ TEST(Restart, BadCheckpointsGiveOneLineAndChangeNothing) {
                                 {channel_case, "missing.h5", "missing.h5"}};
   const auto before = snapshot(scratch.path() / "run");
   for (const auto& b : bad) {
-    auto result = run_program(scratch.path(), {"run", b.case_file, "--output-dir", "run", "--quiet", "--restart", b.restart},
+    auto result = run_program(scratch.path(),
+                              {"run", b.case_file, "--output-dir", "run", "--quiet", "--restart", b.restart},
                               scratch.path() / "logs", "bad");
     EXPECT_EQ(result.exit_status, 2) << b.restart << ": " << result.err;
     EXPECT_EQ(lines_of(result.err).size(), 1u) << result.err;
@@ -201,15 +211,18 @@ TEST(Restart, BadCheckpointsGiveOneLineAndChangeNothing) {
 
 TEST(Restart, CheckpointOpensWithStandardTools) {
   ScratchDirectory scratch("wallrans_restart_tools");
-  auto run = run_program(scratch.path(), {"run", channel_case, "--output-dir", "run", "--max-iterations", "5", "--quiet"},
+  auto run = run_program(scratch.path(),
+                         {"run", channel_case, "--output-dir", "run", "--max-iterations", "5", "--quiet"},
                          scratch.path() / "logs", "run");
   ASSERT_EQ(run.exit_status, 3) << run.err;
   const std::string h5 = (scratch.path() / "run" / "checkpoint_5.h5").string();
   EXPECT_EQ(std::system(("h5ls -r '" + h5 + "' > /dev/null").c_str()), 0);
   EXPECT_EQ(std::system(("h5dump -A '" + h5 + "' > /dev/null").c_str()), 0);
-  const std::string python = "/usr/bin/python3 -c \"import h5py,sys; f=h5py.File(sys.argv[1],'r'); "
-                             "assert f['fields/velocity_x'].shape == (128, 4); assert f['fields/model_nu_tilde'].shape == (128, 4)\" '" +
-                             h5 + "'";
+  const std::string python =
+      "/usr/bin/python3 -c \"import h5py,sys; f=h5py.File(sys.argv[1],'r'); "
+      "assert f['fields/velocity_x'].shape == (128, 4); assert f['fields/model_nu_tilde'].shape == (128, "
+      "4)\" '" +
+      h5 + "'";
   EXPECT_EQ(std::system(python.c_str()), 0);
   EXPECT_TRUE(fs::exists(scratch.path() / "run" / "checkpoint_5.xmf"));
 }
@@ -217,11 +230,13 @@ TEST(Restart, CheckpointOpensWithStandardTools) {
 TEST(Restart, WallClockBudgetStopsWithACheckpoint) {
   ScratchDirectory scratch("wallrans_restart_walltime");
   // The channel needs several seconds to converge; a 2 s budget stops it early.
-  auto run = run_program(scratch.path(), {"run", channel_case, "--output-dir", "run", "--quiet", "--walltime", "2"},
-                         scratch.path() / "logs", "budget");
+  auto run =
+      run_program(scratch.path(), {"run", channel_case, "--output-dir", "run", "--quiet", "--walltime", "2"},
+                  scratch.path() / "logs", "budget");
   EXPECT_EQ(run.exit_status, 5) << run.out << run.err;
   EXPECT_NE(run.out.find("wall-clock budget"), std::string::npos) << run.out;
   bool found = false;
-  for (const auto& entry : fs::directory_iterator(scratch.path() / "run")) found |= entry.path().extension() == ".h5";
+  for (const auto& entry : fs::directory_iterator(scratch.path() / "run"))
+    found |= entry.path().extension() == ".h5";
   EXPECT_TRUE(found);
 }

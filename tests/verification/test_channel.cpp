@@ -81,10 +81,11 @@ std::array<double, 3> bulk_bound(const Variant& v) {
 }
 
 Result run_channel(const Variant& v, const Reynolds& r, MPI_Comm comm) {
-  CaseSpec spec = load_case_file(std::string(WALLRANS_SOURCE_DIR) + "/configs/channel_sa_re" + r.label + ".yaml");
+  CaseSpec spec =
+      load_case_file(std::string(WALLRANS_SOURCE_DIR) + "/configs/channel_sa_re" + r.label + ".yaml");
   spec.turbulence.model = v.model;
   spec.turbulence.variant = v.variant;
-  if (std::string(v.model) == "mixing_length") spec.turbulence.outer_length = 1.0;  // half-height
+  if (std::string(v.model) == "mixing_length") spec.turbulence.outer_length = 1.0;       // half-height
   if (std::string(v.model) == "k_equation") spec.turbulence.freestream_intensity = 0.1;  // initial k
   auto run = test_support::run_case_on(comm, spec, [](FlowSolver&) {});
   EXPECT_TRUE(run.converged) << v.model << "/" << v.variant << " Re_tau " << r.re_tau;
@@ -105,15 +106,16 @@ Result run_channel(const Variant& v, const Reynolds& r, MPI_Comm comm) {
   res.bulk = g.global_sum(flow) / g.global_sum(volume) / u_tau;
   res.bulk_error_percent = 100.0 * (res.bulk / r.dns_bulk - 1.0);
 
-  const Profile dns = read_columns(std::string(WALLRANS_TEST_DATA) + "/channel-mkm1999/mkm_retau" + r.label +
-                                       "_means.dat", 1, 2, ' ');
+  const Profile dns = read_columns(
+      std::string(WALLRANS_TEST_DATA) + "/channel-mkm1999/mkm_retau" + r.label + "_means.dat", 1, 2, ' ');
   // Reference 1-D solution of the same model equations (independent implementation).
-  const auto csv = std::filesystem::temp_directory_path() /
-                   ("wallrans_channel1d_" + std::string(v.model) + v.variant + r.label + "_" +
-                    std::to_string(g.rank()) + ".csv");
-  const std::string command = std::string("/usr/bin/python3 ") + WALLRANS_SOURCE_DIR + "/tools/channel1d.py --model " +
-                              v.model + (v.variant[0] ? std::string(" --variant ") + v.variant : std::string()) +
-                              " --re-tau " + std::to_string(r.re_tau) + " --out " + csv.string() + " > /dev/null";
+  const auto csv =
+      std::filesystem::temp_directory_path() / ("wallrans_channel1d_" + std::string(v.model) + v.variant +
+                                                r.label + "_" + std::to_string(g.rank()) + ".csv");
+  const std::string command =
+      std::string("/usr/bin/python3 ") + WALLRANS_SOURCE_DIR + "/tools/channel1d.py --model " + v.model +
+      (v.variant[0] ? std::string(" --variant ") + v.variant : std::string()) + " --re-tau " +
+      std::to_string(r.re_tau) + " --out " + csv.string() + " > /dev/null";
   EXPECT_EQ(std::system(command.c_str()), 0) << command;
   const Profile one_d = read_columns(csv.string(), 0, 1, ',');
   std::filesystem::remove(csv);
@@ -138,10 +140,11 @@ void check_model(const Variant& v) {
   const auto bound = bulk_bound(v);
   for (int k = 0; k < 3; ++k) {
     const Result res = run_channel(v, reynolds[k], MPI_COMM_WORLD);
-    std::printf("| %s %s | %s | %.3f | %.2f %% | %.2f | %.3f %% |\n", v.model, v.variant, reynolds[k].label, res.bulk,
-                res.bulk_error_percent, res.max_du_log, 100.0 * res.max_rel_1d);
+    std::printf("| %s %s | %s | %.3f | %.2f %% | %.2f | %.3f %% |\n", v.model, v.variant, reynolds[k].label,
+                res.bulk, res.bulk_error_percent, res.max_du_log, 100.0 * res.max_rel_1d);
     // DNS: Moser, Kim & Mansour (1999), bulk U+ 15.68 / 17.54 / 18.65.
-    EXPECT_LT(std::abs(res.bulk_error_percent), bound[k]) << v.model << " " << v.variant << " Re " << reynolds[k].label;
+    EXPECT_LT(std::abs(res.bulk_error_percent), bound[k])
+        << v.model << " " << v.variant << " Re " << reynolds[k].label;
     // Code verification: the 2-D periodic result equals the 1-D solution of the same equations to
     // 0.5 % in U+ at every cell of the half channel.
     EXPECT_LT(res.max_rel_1d, 5e-3) << v.model << " " << v.variant << " Re " << reynolds[k].label;

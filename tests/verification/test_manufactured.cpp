@@ -100,7 +100,8 @@ Errors solve_on(int n, ConvectionScheme scheme) {
       ev += w * std::pow(vel.y(i, j) - e.v, 2);
       ep += w * std::pow((p(i, j) - p_mean) - (e.p - pe_mean), 2);
     }
-  return {std::sqrt(g.global_sum(eu) / vol), std::sqrt(g.global_sum(ev) / vol), std::sqrt(g.global_sum(ep) / vol)};
+  return {std::sqrt(g.global_sum(eu) / vol), std::sqrt(g.global_sum(ev) / vol),
+          std::sqrt(g.global_sum(ep) / vol)};
 }
 
 void check_order(ConvectionScheme scheme, const char* label) {
@@ -110,17 +111,20 @@ void check_order(ConvectionScheme scheme, const char* label) {
   for (size_t m = 0; m < e.size(); ++m) {
     std::printf("%s n=%3d  L2 error u %.3e v %.3e p %.3e", label, sizes[m], e[m].u, e[m].v, e[m].p);
     if (m > 0) {
-      std::printf("   order u %.2f v %.2f p %.2f", std::log2(e[m - 1].u / e[m].u), std::log2(e[m - 1].v / e[m].v),
-                  std::log2(e[m - 1].p / e[m].p));
+      std::printf("   order u %.2f v %.2f p %.2f", std::log2(e[m - 1].u / e[m].u),
+                  std::log2(e[m - 1].v / e[m].v), std::log2(e[m - 1].p / e[m].p));
     }
     std::printf("\n");
   }
   // Observed order p = ln(e_coarse / e_fine) / ln 2 (refinement ratio 2) on the two finest pairs;
   // a second-order scheme must show >= 1.8 there.
   for (size_t m = 2; m < e.size(); ++m) {
-    EXPECT_GE(std::log2(e[m - 1].u / e[m].u), 1.8) << label << " u, grids " << sizes[m - 1] << "->" << sizes[m];
-    EXPECT_GE(std::log2(e[m - 1].v / e[m].v), 1.8) << label << " v, grids " << sizes[m - 1] << "->" << sizes[m];
-    EXPECT_GE(std::log2(e[m - 1].p / e[m].p), 1.8) << label << " p, grids " << sizes[m - 1] << "->" << sizes[m];
+    EXPECT_GE(std::log2(e[m - 1].u / e[m].u), 1.8)
+        << label << " u, grids " << sizes[m - 1] << "->" << sizes[m];
+    EXPECT_GE(std::log2(e[m - 1].v / e[m].v), 1.8)
+        << label << " v, grids " << sizes[m - 1] << "->" << sizes[m];
+    EXPECT_GE(std::log2(e[m - 1].p / e[m].p), 1.8)
+        << label << " p, grids " << sizes[m - 1] << "->" << sizes[m];
   }
 }
 

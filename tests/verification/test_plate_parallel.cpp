@@ -32,7 +32,7 @@ TEST(PlateParallel, WorldMatchesSingleRank) {
   double worst = 0.0;
   for (size_t k = 0; k < a.size(); ++k) worst = std::max(worst, std::abs(a[k] - b[k]) / b[k]);
   if (world.grid->rank() == 0)
-    std::printf("plate: max relative wall-shear difference, %d ranks vs 1 rank: %.2e (%zu wall faces)\n", size, worst,
-              a.size());
+    std::printf("plate: max relative wall-shear difference, %d ranks vs 1 rank: %.2e (%zu wall faces)\n",
+                size, worst, a.size());
   EXPECT_LT(worst, 1e-4);
 }

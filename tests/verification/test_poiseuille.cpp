@@ -31,7 +31,8 @@ double max_relative_error(const CaseSpec& spec) {
     status = solver.iterate();
   } while (!solver.converged(status) && status.iteration < spec.iterations.max);
   EXPECT_TRUE(solver.converged(status)) << "u residual " << status.normalised.u;
-  const double g = -spec.periodic.mean_pressure_gradient, nu = spec.flow.kinematic_viscosity, h = spec.grid.height;
+  const double g = -spec.periodic.mean_pressure_gradient, nu = spec.flow.kinematic_viscosity,
+               h = spec.grid.height;
   const double u_max = g * h * h / (8.0 * nu);
   double err = 0.0;
   for (int j = grid.y_begin(); j < grid.y_end(); ++j) {

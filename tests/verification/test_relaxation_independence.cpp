@@ -50,7 +50,8 @@ CaseSpec small_cavity() {
 }
 
 void expect_same_answer(CaseSpec base, const char* label) {
-  const Variant variants[3] = {{Coupling::simplec, 0.9, 1.0}, {Coupling::simplec, 0.5, 1.0}, {Coupling::simple, 0.7, 0.3}};
+  const Variant variants[3] = {
+      {Coupling::simplec, 0.9, 1.0}, {Coupling::simplec, 0.5, 1.0}, {Coupling::simple, 0.7, 0.3}};
   base.iterations.max = 20000;
   base.iterations.residual_drop = 1e-11;
   base.iterations.petsc_options = "-momentum_ksp_rtol 1e-3 -pressure_ksp_rtol 1e-3";
@@ -74,8 +75,8 @@ void expect_same_answer(CaseSpec base, const char* label) {
       }
     du = g.global_max(du);
     dp = g.global_max(dp);
-    std::printf("%s: variant %zu vs SIMPLEC 0.9: max |du| %.2e, max |dp| %.2e (%d vs %d iterations)\n", label, k, du,
-                dp, runs[k].status.iteration, runs[0].status.iteration);
+    std::printf("%s: variant %zu vs SIMPLEC 0.9: max |du| %.2e, max |dp| %.2e (%d vs %d iterations)\n", label,
+                k, du, dp, runs[k].status.iteration, runs[0].status.iteration);
     // Velocity scale 1 m/s, pressure scale 1 m^2/s^2: agreement to the iteration tolerance.
     EXPECT_LT(du, 1e-7) << label << " variant " << k;
     EXPECT_LT(dp, 1e-7) << label << " variant " << k;

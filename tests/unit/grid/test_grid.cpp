@@ -45,7 +45,8 @@ TEST(Grid, CentroidSatisfiesFirstMomentOfLinearField) {
   Grid grid(MPI_COMM_WORLD, generate_nodes(skewed_spec(8)), false);
   for (int j = grid.y_begin(); j < grid.y_end(); ++j) {
     for (int i = grid.x_begin(); i < grid.x_end(); ++i) {
-      const Vec2 a = grid.node(i, j), b = grid.node(i + 1, j), c = grid.node(i + 1, j + 1), d = grid.node(i, j + 1);
+      const Vec2 a = grid.node(i, j), b = grid.node(i + 1, j), c = grid.node(i + 1, j + 1),
+                 d = grid.node(i, j + 1);
       const double a1 = 0.5 * cross(b - a, c - a), a2 = 0.5 * cross(c - a, d - a);
       const Vec2 g = (1.0 / (3.0 * (a1 + a2))) * (a1 * (a + b + c) + a2 * (a + c + d));
       EXPECT_NEAR(grid.centre(i, j).x, g.x, 1e-14);
@@ -57,7 +58,8 @@ TEST(Grid, CentroidSatisfiesFirstMomentOfLinearField) {
 
 TEST(Grid, FoldedCellIsRejectedWithItsIndex) {
   auto nodes = generate_nodes(skewed_spec(6));
-  nodes.at(3, 2).x += 0.5;  // pushes a node across its neighbours; (3, 1) is the first folded cell in j-major order
+  nodes.at(3, 2).x +=
+      0.5;  // pushes a node across its neighbours; (3, 1) is the first folded cell in j-major order
   try {
     Grid grid(MPI_COMM_WORLD, nodes, false);
     FAIL() << "expected InputError";
@@ -80,7 +82,8 @@ TEST(Grid, PeriodicGhostsAreTranslatedAndExchanged) {
   f.exchange();
   for (int j = grid.gy_begin(); j < grid.gy_end(); ++j) {
     for (int i = grid.gx_begin(); i < grid.gx_end(); ++i) {
-      const bool corner = (i < grid.x_begin() || i >= grid.x_end()) && (j < grid.y_begin() || j >= grid.y_end());
+      const bool corner =
+          (i < grid.x_begin() || i >= grid.x_end()) && (j < grid.y_begin() || j >= grid.y_end());
       if (corner) continue;  // star stencil: corner ghosts are not exchanged
       const int iw = (i + 6) % 6;
       EXPECT_EQ(f(i, j), 100.0 * j + iw);

@@ -437,10 +437,11 @@ INSTANTIATE_TEST_SUITE_P(
                 "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\n"
                 "boundaries: [{side: top, kind: wall}]\nturbulence: {model: mixing_length}\n",
                 4, "turbulence.outer_length", "0.09 outer_length"},
-        BadCase{"unknown_sa_variant",
-                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\n"
-                "boundaries: [{side: top, kind: wall}]\nturbulence: {model: spalart_allmaras, variant: lowre}\n",
-                4, "turbulence.variant", "one of negative, standard, noft2"},
+        BadCase{
+            "unknown_sa_variant",
+            "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\n"
+            "boundaries: [{side: top, kind: wall}]\nturbulence: {model: spalart_allmaras, variant: lowre}\n",
+            4, "turbulence.variant", "one of negative, standard, noft2"},
         BadCase{"unknown_coupling",
                 "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\n"
                 "boundaries: [{side: top, kind: wall}]\niterations:\n  max: 10\n  coupling: coupled\n",

@@ -22,7 +22,9 @@ CaseSpec box_without_wall(const std::string& model) {
                      {Side::bottom, {}, {}, BoundaryKind::slip, {}, {}, 7},
                      {Side::top, {}, {}, BoundaryKind::slip, {}, {}, 8}};
   spec.turbulence.model = model;
-  spec.turbulence.variant = model == "k_equation" ? "length_scale" : model == "spalart_allmaras" ? "negative" : "";
+  spec.turbulence.variant = model == "k_equation"         ? "length_scale"
+                            : model == "spalart_allmaras" ? "negative"
+                                                          : "";
   spec.turbulence.outer_length = 1.0;
   spec.turbulence.line = 9;
   return spec;
@@ -40,7 +42,9 @@ TEST(ModelFactory, WallModelsNeedAWall) {
       ADD_FAILURE() << model << ": expected InputError";
     } catch (const InputError& e) {
       const std::string text = e.what();
-      EXPECT_EQ(text.find("nowall.yaml:9: key 'turbulence.model': expected a grid with at least one no-slip wall"), 0u)
+      EXPECT_EQ(
+          text.find("nowall.yaml:9: key 'turbulence.model': expected a grid with at least one no-slip wall"),
+          0u)
           << text;
       EXPECT_EQ(text.find('\n'), std::string::npos);
     }
