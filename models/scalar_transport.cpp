@@ -26,6 +26,7 @@ ScalarTransport::ScalarTransport(const Grid& grid, const BoundaryMap& boundaries
       boundaries_(boundaries),
       scheme_(scheme),
       faces_(owned_boundary_faces(grid)),
+      cell_faces_(boundary_faces_by_cell(grid, faces_)),
       phi_b_(grid),
       grad_(grid) {
   lsq_ = std::make_unique<LeastSquaresGradient>(grid, faces_, [](const BoundaryFace&) { return true; });
@@ -73,15 +74,7 @@ double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
   lsq_->compute(phi, phi_b_, grad_);
   grad_.exchange();
 
-  std::vector<std::array<int, 4>> cell_faces(grid_.n_owned(), {-1, -1, -1, -1});
-  for (size_t k = 0; k < flow.boundary_faces.size(); ++k) {
-    for (int& slot : cell_faces[grid_.owned(flow.boundary_faces[k].i, flow.boundary_faces[k].j)]) {
-      if (slot < 0) {
-        slot = static_cast<int>(k);
-        break;
-      }
-    }
-  }
+  // flow.boundary_faces is owned_boundary_faces(grid) too, so faces_'s slots index it.
 
   Mat a = matrix_.get();
   check_petsc(MatZeroEntries(a));
@@ -147,7 +140,7 @@ double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
         neighbour(i, j - 1, t.a_rl);
         rhs -= t.explicit_left;
       }
-      for (int slot : cell_faces[grid_.owned(i, j)]) {
+      for (int slot : cell_faces_[grid_.owned(i, j)]) {
         if (slot < 0) continue;
         const BoundaryFace& f = flow.boundary_faces[slot];
         const double flux = flow.boundary_flux[slot];

@@ -50,6 +50,7 @@ class ScalarTransport {
   const BoundaryMap& boundaries_;
   ConvectionScheme scheme_;
   std::vector<BoundaryFace> faces_;
+  std::vector<std::array<int, 4>> cell_faces_;
   std::unique_ptr<LeastSquaresGradient> lsq_;
   BoundaryValues phi_b_;
   std::function<double(Vec2)> boundary_function_;

@@ -28,6 +28,7 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
       boundaries_(boundaries),
       model_(model),
       bfaces_(owned_boundary_faces(grid)),
+      cell_faces_(boundary_faces_by_cell(grid, bfaces_)),
       vel_(grid),
       vel_old_(grid),
       grad_u_(grid),

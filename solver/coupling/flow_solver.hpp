@@ -119,6 +119,7 @@ class FlowSolver {
   const BoundaryMap& boundaries_;
   TurbulenceModel& model_;
   std::vector<BoundaryFace> bfaces_;
+  std::vector<std::array<int, 4>> cell_faces_;  // boundary faces of each owned cell
   std::function<Vec2(Vec2)> source_, boundary_velocity_;
   std::function<double(Vec2, Vec2)> boundary_flux_fn_;
   void refresh_wall_shear();

@@ -83,17 +83,6 @@ void FlowSolver::assemble_momentum(ResidualNorms& residual) {
   Vec2 body = spec_.flow.body_force;
   if (spec_.periodic.axis == PeriodicAxis::x) body.x -= spec_.periodic.mean_pressure_gradient;
 
-  // Boundary faces of each owned cell (at most two per cell on a single block).
-  std::vector<std::array<int, 4>> cell_faces(grid_.n_owned(), {-1, -1, -1, -1});
-  for (size_t k = 0; k < bfaces_.size(); ++k) {
-    for (int& slot : cell_faces[grid_.owned(bfaces_[k].i, bfaces_[k].j)]) {
-      if (slot < 0) {
-        slot = static_cast<int>(k);
-        break;
-      }
-    }
-  }
-
   double res_u = 0.0, res_v = 0.0;
   for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
     for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
@@ -140,7 +129,7 @@ void FlowSolver::assemble_momentum(ResidualNorms& residual) {
       if (grid_.has_north(j)) as_left(i, j + 1, grid_.north_face(i, j), flux_n_(i, j));
       if (grid_.has_south(j)) as_right(i, j - 1, grid_.north_face(i, j - 1), flux_n_(i, j - 1));
 
-      for (int slot : cell_faces[o]) {
+      for (int slot : cell_faces_[o]) {
         if (slot < 0) continue;
         const BoundaryFace& f = bfaces_[slot];
         const auto& seg = segment(f);

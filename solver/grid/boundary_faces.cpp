@@ -35,6 +35,20 @@ std::vector<BoundaryFace> owned_boundary_faces(const Grid& grid) {
   return faces;
 }
 
+std::vector<std::array<int, 4>> boundary_faces_by_cell(const Grid& grid,
+                                                       const std::vector<BoundaryFace>& faces) {
+  std::vector<std::array<int, 4>> by_cell(grid.n_owned(), {-1, -1, -1, -1});
+  for (size_t k = 0; k < faces.size(); ++k) {
+    for (int& slot : by_cell[grid.owned(faces[k].i, faces[k].j)]) {
+      if (slot < 0) {
+        slot = static_cast<int>(k);
+        break;
+      }
+    }
+  }
+  return by_cell;
+}
+
 BoundaryValues::BoundaryValues(const Grid& grid) {
   side[static_cast<int>(Side::left)].assign(grid.cells_y(), 0.0);
   side[static_cast<int>(Side::right)].assign(grid.cells_y(), 0.0);

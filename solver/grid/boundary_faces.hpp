@@ -23,6 +23,11 @@ struct BoundaryFace {
 /// Local. All boundary faces of owned cells, in a fixed order (left, right, bottom, top).
 std::vector<BoundaryFace> owned_boundary_faces(const Grid& grid);
 
+/// Local. For each owned cell (owned order), the positions in `faces` of its boundary faces
+/// (at most two on a single block; unused slots are -1).
+std::vector<std::array<int, 4>> boundary_faces_by_cell(const Grid& grid,
+                                                       const std::vector<BoundaryFace>& faces);
+
 /// A value per boundary face, per side, indexed by the position along the side. Each rank fills
 /// the entries of its own faces only.
 struct BoundaryValues {
