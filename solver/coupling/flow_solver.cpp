@@ -6,6 +6,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <optional>
 
 #include "core/error.hpp"
 
@@ -241,6 +242,8 @@ void FlowSolver::update_pressure_gradient_and_boundary_values() {
 IterationStatus FlowSolver::iterate() {
   IterationStatus status;
   status.iteration = ++iteration_;
+  std::optional<ScopedLogStage> phase;  // emplace() pops the previous phase's stage
+  phase.emplace(stages_.momentum_assembly);
   vel_old_ = vel_;
   flux_e_old_ = flux_e_;
   flux_n_old_ = flux_n_;
@@ -251,6 +254,7 @@ IterationStatus FlowSolver::iterate() {
   for (size_t k = 0; k < nu_eff_.data().size(); ++k)
     nu_eff_.data()[k] = spec_.flow.kinematic_viscosity + nut.data()[k];
 
+  phase.emplace(stages_.correction_gradients);
   update_velocity_boundary_values();
   lsq_all_->compute(vel_.x, u_b_, grad_u_);
   lsq_all_->compute(vel_.y, v_b_, grad_v_);
@@ -258,16 +262,23 @@ IterationStatus FlowSolver::iterate() {
   grad_v_.exchange();
   update_pressure_gradient_and_boundary_values();
 
+  phase.emplace(stages_.momentum_assembly);
   assemble_momentum(status.absolute);
+  phase.emplace(stages_.momentum_solve);
   solve_momentum(status);
+  phase.emplace(stages_.pressure_assembly);
   predict_fluxes();
   assemble_and_solve_pressure_correction(status);
+  phase.emplace(stages_.correction_gradients);
   correct();
 
+  phase.emplace(stages_.monitors);
   update_velocity_boundary_values();
   for (size_t k = 0; k < bfaces_.size(); ++k) bflux_[k] = boundary_flux(bfaces_[k]);
   refresh_wall_shear();
+  phase.emplace(stages_.turbulence);
   model_.update(view());
+  phase.emplace(stages_.monitors);
 
   // Momentum: normalised by the largest momentum residual (u or v) of the first five iterations
   // (common practice). Continuity: by the reference volume flux U_ref L_ref, since the initial
@@ -495,6 +506,7 @@ void FlowSolver::assemble_and_solve_pressure_correction(IterationStatus& status)
   check_petsc(MatAssemblyEnd(a, MAT_FINAL_ASSEMBLY));
   status.absolute.continuity = grid_.global_sum(imbalance);
   if (null_space_) check_petsc(MatNullSpaceRemove(null_space_.get(), b_vec_.get()));
+  const ScopedLogStage solve_stage(stages_.pressure_solve);
   check_petsc(KSPSetOperators(ksp_pc_.get(), a, a));
   std::fill(pc_.data().begin(), pc_.data().end(), 0.0);
   solve_linear(ksp_pc_.get(), b_vec_.get(), pc_, status.pressure_iterations, status.linear_solves_converged);

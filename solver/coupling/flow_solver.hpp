@@ -7,6 +7,7 @@
 #include <vector>
 
 #include "core/case_spec.hpp"
+#include "coupling/iteration_stages.hpp"
 #include "discretization/least_squares_gradient.hpp"
 #include "grid/boundary.hpp"
 #include "grid/boundary_faces.hpp"
@@ -141,6 +142,7 @@ class FlowSolver {
   OwnedVec b_vec_, x_vec_;
   OwnedKsp ksp_mom_, ksp_pc_;
   OwnedNullSpace null_space_;
+  IterationStages stages_;
   ResidualNorms reference_;
   std::vector<double> model_reference_;
 };
