@@ -25,9 +25,9 @@ ScalarTransport::ScalarTransport(const Grid& grid, const BoundaryMap& boundaries
     : grid_(grid),
       boundaries_(boundaries),
       scheme_(scheme),
-      faces_(owned_boundary_faces(grid)),
+      faces_(owned_boundary_faces(grid, boundaries.faces())),
       cell_faces_(boundary_faces_by_cell(grid, faces_)),
-      phi_b_(grid),
+      phi_b_(faces_.size(), 0.0),
       grad_(grid) {
   lsq_ = std::make_unique<LeastSquaresGradient>(grid, faces_, [](const BoundaryFace&) { return true; });
   check_petsc(DMCreateMatrix(grid.dm(), matrix_.out()));
@@ -46,7 +46,7 @@ void ScalarTransport::boundary_values(const MeanFlowView& flow, const Field& phi
                                       double freestream) {
   for (size_t k = 0; k < flow.boundary_faces.size(); ++k) {
     const BoundaryFace& f = flow.boundary_faces[k];
-    const BoundaryKind kind = boundaries_.spec(f.side, f.index).kind;
+    const BoundaryKind kind = boundaries_.spec(f).kind;
     double value = phi(f.i, f.j);
     if (kind == BoundaryKind::wall)
       value = wall_value;
@@ -54,7 +54,7 @@ void ScalarTransport::boundary_values(const MeanFlowView& flow, const Field& phi
       value = freestream;
     if (boundary_function_ && (kind == BoundaryKind::wall || kind == BoundaryKind::inflow))
       value = boundary_function_(f.centre);
-    phi_b_.at(f) = value;
+    phi_b_[k] = value;
   }
 }
 
@@ -144,8 +144,8 @@ double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
         if (slot < 0) continue;
         const BoundaryFace& f = flow.boundary_faces[slot];
         const double flux = flow.boundary_flux[slot];
-        const BoundaryKind kind = boundaries_.spec(f.side, f.index).kind;
-        const double value = phi_b_.at(f);
+        const BoundaryKind kind = boundaries_.spec(f).kind;
+        const double value = phi_b_[slot];
         // Entering flow carries the boundary value. Leaving flow is upwind (this cell) in the
         // matrix; through a prescribed-value face the scheme's face value, reconstructed from the
         // cell towards the prescribed value, is added as a deferred correction (second order). An

@@ -52,7 +52,7 @@ class ScalarTransport {
   std::vector<BoundaryFace> faces_;
   std::vector<std::array<int, 4>> cell_faces_;
   std::unique_ptr<LeastSquaresGradient> lsq_;
-  BoundaryValues phi_b_;
+  std::vector<double> phi_b_;  // boundary values (faces_ order)
   std::function<double(Vec2)> boundary_function_;
   VectorField grad_;
   OwnedMat matrix_;

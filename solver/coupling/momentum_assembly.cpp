@@ -133,9 +133,9 @@ void FlowSolver::assemble_momentum(ResidualNorms& residual) {
         if (slot < 0) continue;
         const BoundaryFace& f = bfaces_[slot];
         const auto& seg = segment(f);
-        const double flux = boundary_flux(f);
+        const double flux = bflux_[slot];
         const double area = norm(f.area);
-        const double ub = u_b_.at(f), vb = v_b_.at(f);
+        const double ub = u_b_[slot], vb = v_b_[slot];
         const double s1 = dot(f.centre - xp, (1.0 / area) * f.area);
         switch (seg.kind) {
           case BoundaryKind::wall:
