@@ -47,7 +47,6 @@ class ScalarTransport {
  private:
   void boundary_values(const MeanFlowView& flow, const Field& phi, double wall_value, double freestream);
   const Grid& grid_;
-  const BoundaryMap& boundaries_;
   ConvectionScheme scheme_;
   std::vector<BoundaryFace> faces_;
   std::vector<std::array<int, 4>> cell_faces_;

@@ -26,6 +26,7 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
     : spec_(spec),
       grid_(grid),
       boundaries_(boundaries),
+      conditions_(boundaries.segments(), spec.flow.reference_pressure),
       model_(model),
       bfaces_(owned_boundary_faces(grid, boundaries.faces())),
       cell_faces_(boundary_faces_by_cell(grid, bfaces_)),
@@ -48,14 +49,12 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
       v_b_(bfaces_.size(), 0.0),
       p_b_(bfaces_.size(), 0.0),
       zero_b_(bfaces_.size(), 0.0) {
-  for (const auto& seg : boundaries_.segments()) {
-    if (seg.kind == BoundaryKind::outflow || seg.kind == BoundaryKind::free) has_pressure_boundary_ = true;
-  }
+  has_pressure_boundary_ = conditions_.has_fixed_pressure();
   // Global numbering of the wall faces: the wall faces in boundary-face id order.
   std::vector<int> wall_of_face(boundaries_.faces().size(), -1);
   int n_walls = 0;
   for (const BoundaryFace& f : boundaries_.faces()) {
-    if (segment(f).kind == BoundaryKind::wall) wall_of_face[f.id] = n_walls++;
+    if (condition(f).is_wall()) wall_of_face[f.id] = n_walls++;
   }
   wall_shear_.assign(static_cast<size_t>(n_walls), 0.0);
   for (const auto& f : bfaces_) wall_id_.push_back(wall_of_face[f.id]);
@@ -77,14 +76,17 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
   update_velocity_boundary_values();
   for (size_t k = 0; k < bfaces_.size(); ++k) {
     const BoundaryFace& f = bfaces_[k];
-    const auto kind = segment(f).kind;
-    double& flux = bflux_[k];
-    if (kind == BoundaryKind::slip)
-      flux = 0.0;
-    else if (kind == BoundaryKind::wall || kind == BoundaryKind::inflow)
-      flux = u_b_[k] * f.area.x + v_b_[k] * f.area.y;
-    else
-      flux = dot(vel_(f.i, f.j), f.area);
+    switch (condition(f).flux_prediction()) {
+      case FluxPrediction::zero:
+        bflux_[k] = 0.0;
+        break;
+      case FluxPrediction::prescribed:
+        bflux_[k] = u_b_[k] * f.area.x + v_b_[k] * f.area.y;
+        break;
+      case FluxPrediction::rhie_chow:
+        bflux_[k] = dot(vel_(f.i, f.j), f.area);  // no pressure field yet
+        break;
+    }
   }
   flux_e_.exchange();
   flux_n_.exchange();
@@ -135,32 +137,12 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
   diag_.assign(grid.n_owned(), 0.0);
 }
 
-bool FlowSolver::is_pressure_boundary(const BoundaryFace& f) const {
-  const auto kind = segment(f).kind;
-  return kind == BoundaryKind::outflow || kind == BoundaryKind::free;
-}
-
 void FlowSolver::update_velocity_boundary_values() {
   for (size_t k = 0; k < bfaces_.size(); ++k) {
     const BoundaryFace& f = bfaces_[k];
-    const auto& seg = segment(f);
-    Vec2 value = vel_(f.i, f.j);
-    switch (seg.kind) {
-      case BoundaryKind::wall:
-      case BoundaryKind::inflow:
-        value = boundary_velocity_ ? boundary_velocity_(f.centre) : seg.velocity;
-        break;
-      case BoundaryKind::outflow:
-        break;  // zero normal gradient
-      case BoundaryKind::free:
-        if (bflux_[k] < 0.0) value = seg.velocity;
-        break;
-      case BoundaryKind::slip: {
-        const Vec2 n = (1.0 / norm(f.area)) * f.area;
-        value = value - dot(value, n) * n;
-        break;
-      }
-    }
+    const BoundaryCondition& bc = condition(f);
+    Vec2 value = bc.face_velocity(f, vel_(f.i, f.j), bflux_[k]);
+    if (boundary_velocity_ && bc.is_prescribed()) value = boundary_velocity_(f.centre);
     u_b_[k] = value.x;
     v_b_[k] = value.y;
   }
@@ -174,7 +156,7 @@ void FlowSolver::update_pressure_gradient_and_boundary_values() {
   for (size_t k = 0; k < bfaces_.size(); ++k) {
     const BoundaryFace& f = bfaces_[k];
     if (is_pressure_boundary(f)) {
-      p_b_[k] = segment(f).pressure.value_or(spec_.flow.reference_pressure);
+      p_b_[k] = condition(f).pressure();
       continue;
     }
     const Vec2 n = (1.0 / norm(f.area)) * f.area;
@@ -273,17 +255,9 @@ void FlowSolver::restarted() {
 }
 
 MeanFlowView FlowSolver::view() const {
-  return MeanFlowView{grid_,
-                      boundaries_,
-                      bfaces_,
-                      bflux_,
-                      vel_,
-                      grad_u_,
-                      grad_v_,
-                      flux_e_,
-                      flux_n_,
-                      wall_shear_,
-                      spec_.flow.kinematic_viscosity};
+  return MeanFlowView{grid_,   boundaries_, conditions_, bfaces_,
+                      bflux_,  vel_,        grad_u_,     grad_v_,
+                      flux_e_, flux_n_,     wall_shear_, spec_.flow.kinematic_viscosity};
 }
 
 void FlowSolver::refresh_wall_shear() {
@@ -380,20 +354,25 @@ void FlowSolver::predict_fluxes() {
   const double alpha = spec_.iterations.relax_velocity;
   for (size_t k = 0; k < bfaces_.size(); ++k) {
     const BoundaryFace& f = bfaces_[k];
-    const auto kind = segment(f).kind;
     double& flux = bflux_[k];
-    if (kind == BoundaryKind::slip) {
-      flux = 0.0;
-    } else if (kind == BoundaryKind::wall || kind == BoundaryKind::inflow) {
-      flux =
-          boundary_flux_fn_ ? boundary_flux_fn_(f.centre, f.area) : u_b_[k] * f.area.x + v_b_[k] * f.area.y;
-    } else {
-      const Vec2 xp = grid_.centre(f.i, f.j);
-      const Vec2 d = f.centre - xp;
-      const double kf = dot(f.area, f.area) / dot(f.area, d);
-      const double memory = (1.0 - alpha) * (bflux_old_[k] - dot(vel_old_(f.i, f.j), f.area));
-      flux = dot(vel_(f.i, f.j), f.area) +
-             d_rc_(f.i, f.j) * kf * (dot(grad_p_(f.i, f.j), d) - (p_b_[k] - p_(f.i, f.j))) + memory;
+    switch (condition(f).flux_prediction()) {
+      case FluxPrediction::zero:
+        flux = 0.0;
+        break;
+      case FluxPrediction::prescribed:
+        flux =
+            boundary_flux_fn_ ? boundary_flux_fn_(f.centre, f.area) : u_b_[k] * f.area.x + v_b_[k] * f.area.y;
+        break;
+      case FluxPrediction::rhie_chow: {
+        // Rhie-Chow between the owner cell and the face, with the boundary pressure p_b.
+        const Vec2 xp = grid_.centre(f.i, f.j);
+        const Vec2 d = f.centre - xp;
+        const double kf = dot(f.area, f.area) / dot(f.area, d);
+        const double memory = (1.0 - alpha) * (bflux_old_[k] - dot(vel_old_(f.i, f.j), f.area));
+        flux = dot(vel_(f.i, f.j), f.area) +
+               d_rc_(f.i, f.j) * kf * (dot(grad_p_(f.i, f.j), d) - (p_b_[k] - p_(f.i, f.j))) + memory;
+        break;
+      }
     }
   }
   flux_e_.exchange();
@@ -514,7 +493,7 @@ std::vector<WallSample> FlowSolver::wall_samples() const {
   const double dynamic = 0.5 * spec_.flow.reference_velocity * spec_.flow.reference_velocity;
   for (size_t k = 0; k < bfaces_.size(); ++k) {
     const BoundaryFace& f = bfaces_[k];
-    if (segment(f).kind != BoundaryKind::wall) continue;
+    if (!condition(f).is_wall()) continue;
     const Vec2 n = (1.0 / norm(f.area)) * f.area;
     Vec2 t{-n.y, n.x};
     if (t.x < 0.0 || (t.x == 0.0 && t.y < 0.0)) t = -1.0 * t;

@@ -7,6 +7,7 @@
 #include <vector>
 
 #include "core/case_spec.hpp"
+#include "discretization/boundary_conditions.hpp"
 #include "discretization/least_squares_gradient.hpp"
 #include "grid/boundary.hpp"
 #include "grid/boundary_faces.hpp"
@@ -111,13 +112,16 @@ class FlowSolver {
   double interior_flux(int il, int jl, int ir, int jr, const FaceGeometry& face, double flux_old) const;
   double normal_derivative(const Field& phi, const VectorField& grad, double phi_b,
                            const BoundaryFace& face) const;
-  const BoundarySegmentSpec& segment(const BoundaryFace& face) const { return boundaries_.spec(face); }
-  bool is_pressure_boundary(const BoundaryFace& face) const;
+  const BoundaryCondition& condition(const BoundaryFace& face) const { return conditions_.of(face); }
+  bool is_pressure_boundary(const BoundaryFace& face) const {
+    return condition(face).pressure_role() == PressureRole::fixed;
+  }
   void solve_linear(KSP ksp, Vec rhs, Field& solution, int& iterations, bool& converged);
 
   const CaseSpec& spec_;
   const Grid& grid_;
   const BoundaryMap& boundaries_;
+  BoundaryConditions conditions_;  // one per segment
   TurbulenceModel& model_;
   std::vector<BoundaryFace> bfaces_;
   std::vector<std::array<int, 4>> cell_faces_;  // boundary faces of each owned cell

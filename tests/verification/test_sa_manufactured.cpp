@@ -224,8 +224,10 @@ GridResult solve_on(int n) {
   const BoundaryMap boundaries(spec, grid.nodes());
   FrozenFlow frozen;
   fill_frozen_flow(grid, boundaries, frozen);
+  const BoundaryConditions conditions(spec.boundaries, spec.flow.reference_pressure);
   const MeanFlowView view{grid,
                           boundaries,
+                          conditions,
                           frozen.faces,
                           frozen.boundary_flux,
                           frozen.velocity,
