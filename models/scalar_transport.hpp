@@ -20,7 +20,7 @@ struct ScalarEquation {
   const Field* source_p = nullptr;  ///< implicit source coefficient per unit volume, <= 0 (owned cells)
   double wall_value = 0.0;          ///< value at no-slip walls
   double wall_gamma = -1.0;         ///< diffusion coefficient at walls (< 0: use the cell value)
-  double freestream_value = 0.0;    ///< value carried in through inflow and free boundaries
+  double freestream_value = 0.0;    ///< value carried in through inflows and openings
   double relax = 0.8;
   /// Optional: value at wall/inflow faces as a function of the face centre (manufactured
   /// solutions); replaces wall_value and freestream_value there.

@@ -1,4 +1,4 @@
-// The boundary kinds: no-slip wall, inflow, outflow, slip and the fixed-pressure free boundary.
+// The boundary kinds: no-slip wall, inflow, outflow, slip and the fixed-pressure opening.
 #include "discretization/boundary_conditions.hpp"
 
 #include <algorithm>
@@ -60,7 +60,7 @@ class Inflow final : public PrescribedVelocity {
 
 // Fixed static pressure; the flux comes from Rhie-Chow with the boundary pressure. Leaving flow
 // carries the cell value (upwind), entering flow carries `entering` (zero velocity gradient for an
-// outflow, the given velocity for a free boundary); there is no viscous flux.
+// outflow, the given velocity for an opening); there is no viscous flux.
 class FixedPressure : public BoundaryCondition {
  public:
   explicit FixedPressure(double pressure) : pressure_(pressure) {}
@@ -97,9 +97,9 @@ class Outflow final : public FixedPressure {
 };
 
 // Fixed pressure that takes `velocity` (and the free-stream model values) where flow enters.
-class FreeBoundary final : public FixedPressure {
+class Opening final : public FixedPressure {
  public:
-  FreeBoundary(double pressure, Vec2 velocity) : FixedPressure(pressure), velocity_(velocity) {}
+  Opening(double pressure, Vec2 velocity) : FixedPressure(pressure), velocity_(velocity) {}
   Vec2 face_velocity(const BoundaryFace&, Vec2 cell_velocity, double outward_flux) const override {
     return outward_flux < 0.0 ? velocity_ : cell_velocity;
   }
@@ -152,8 +152,8 @@ std::unique_ptr<BoundaryCondition> make_boundary_condition(const BoundarySegment
       return std::make_unique<Outflow>(pressure);
     case BoundaryKind::slip:
       return std::make_unique<Slip>();
-    case BoundaryKind::free:
-      return std::make_unique<FreeBoundary>(pressure, segment.velocity);
+    case BoundaryKind::opening:
+      return std::make_unique<Opening>(pressure, segment.velocity);
   }
   return nullptr;
 }

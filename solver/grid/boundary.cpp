@@ -38,8 +38,8 @@ const char* to_string(BoundaryKind kind) {
       return "outflow";
     case BoundaryKind::slip:
       return "slip";
-    case BoundaryKind::free:
-      return "free";
+    case BoundaryKind::opening:
+      return "opening";
   }
   return "?";
 }

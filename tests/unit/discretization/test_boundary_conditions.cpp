@@ -117,32 +117,32 @@ TEST(BoundaryConditions, OutflowIsZeroGradientWithFixedPressure) {
   EXPECT_DOUBLE_EQ(in.rhs_v, -0.3 * 0.6);
 }
 
-TEST(BoundaryConditions, FixedPressureBoundaryTakesItsVelocityOnlyWhereFlowEnters) {
-  const auto free = make_boundary_condition(segment(BoundaryKind::free, {10.0, 0.0}), 0.0);
+TEST(BoundaryConditions, OpeningTakesItsVelocityOnlyWhereFlowEnters) {
+  const auto opening = make_boundary_condition(segment(BoundaryKind::opening, {10.0, 0.0}), 0.0);
   const BoundaryFace f = bottom_face();
   const Vec2 cell{8.0, 1.0};
-  const Vec2 entering = free->face_velocity(f, cell, -0.1);
+  const Vec2 entering = opening->face_velocity(f, cell, -0.1);
   EXPECT_EQ(entering.x, 10.0);
   EXPECT_EQ(entering.y, 0.0);
-  const Vec2 leaving = free->face_velocity(f, cell, 0.1);
+  const Vec2 leaving = opening->face_velocity(f, cell, 0.1);
   EXPECT_EQ(leaving.x, 8.0);
   EXPECT_EQ(leaving.y, 1.0);
-  EXPECT_TRUE(free->scalar_is_prescribed(-0.1));
-  EXPECT_FALSE(free->scalar_is_prescribed(0.1));
-  EXPECT_EQ(free->scalar_value(3.0, -0.1, model_values), 7.0);
-  EXPECT_EQ(free->scalar_value(3.0, 0.1, model_values), 3.0);
-  EXPECT_EQ(free->pressure_role(), PressureRole::fixed);
-  EXPECT_EQ(free->pressure(), 0.0);
-  EXPECT_EQ(free->flux_prediction(), FluxPrediction::rhie_chow);
-  EXPECT_FALSE(free->is_prescribed()) << "a manufactured function must not replace its velocity";
+  EXPECT_TRUE(opening->scalar_is_prescribed(-0.1));
+  EXPECT_FALSE(opening->scalar_is_prescribed(0.1));
+  EXPECT_EQ(opening->scalar_value(3.0, -0.1, model_values), 7.0);
+  EXPECT_EQ(opening->scalar_value(3.0, 0.1, model_values), 3.0);
+  EXPECT_EQ(opening->pressure_role(), PressureRole::fixed);
+  EXPECT_EQ(opening->pressure(), 0.0);
+  EXPECT_EQ(opening->flux_prediction(), FluxPrediction::rhie_chow);
+  EXPECT_FALSE(opening->is_prescribed()) << "a manufactured function must not replace its velocity";
 
   MomentumRow in{0.0, 0.0, 0.0};
-  free->add_momentum(input(-0.1, entering, cell, {}), in);
+  opening->add_momentum(input(-0.1, entering, cell, {}), in);
   EXPECT_EQ(in.diag, 0.0);
   EXPECT_DOUBLE_EQ(in.rhs_u, 0.1 * 10.0);
   EXPECT_EQ(in.rhs_v, 0.0);
   MomentumRow out{0.0, 0.0, 0.0};
-  free->add_momentum(input(0.1, leaving, cell, {}), out);
+  opening->add_momentum(input(0.1, leaving, cell, {}), out);
   EXPECT_EQ(out.diag, 0.1);
   EXPECT_EQ(out.rhs_u, 0.0);
 }
@@ -169,7 +169,7 @@ TEST(BoundaryConditions, SlipRemovesTheNormalComponentAndCarriesNoFlux) {
   EXPECT_DOUBLE_EQ(row.rhs_v, c * ub.y);
 }
 
-TEST(BoundaryConditions, OnePerSegmentAndFixedPressureOnlyWithOutflowOrFreeBoundary) {
+TEST(BoundaryConditions, OnePerSegmentAndFixedPressureOnlyWithOutflowOrOpening) {
   const std::vector<BoundarySegmentSpec> closed = {segment(BoundaryKind::wall, {1.0, 0.0}),
                                                    segment(BoundaryKind::slip)};
   const BoundaryConditions walls(closed, 0.0);
@@ -182,5 +182,5 @@ TEST(BoundaryConditions, OnePerSegmentAndFixedPressureOnlyWithOutflowOrFreeBound
 
   EXPECT_TRUE(BoundaryConditions({segment(BoundaryKind::wall), segment(BoundaryKind::outflow)}, 0.0)
                   .has_fixed_pressure());
-  EXPECT_TRUE(BoundaryConditions({segment(BoundaryKind::free)}, 0.0).has_fixed_pressure());
+  EXPECT_TRUE(BoundaryConditions({segment(BoundaryKind::opening)}, 0.0).has_fixed_pressure());
 }
