@@ -11,23 +11,13 @@
 
 namespace wallrans {
 
-namespace {
-
-bool is_dirichlet(BoundaryKind kind, double outward_flux) {
-  return kind == BoundaryKind::wall || kind == BoundaryKind::inflow ||
-         (kind == BoundaryKind::free && outward_flux < 0.0);
-}
-
-}  // namespace
-
 ScalarTransport::ScalarTransport(const Grid& grid, const BoundaryMap& boundaries, ConvectionScheme scheme,
                                  const std::string& prefix)
     : grid_(grid),
-      boundaries_(boundaries),
       scheme_(scheme),
-      faces_(owned_boundary_faces(grid)),
+      faces_(owned_boundary_faces(grid, boundaries.faces())),
       cell_faces_(boundary_faces_by_cell(grid, faces_)),
-      phi_b_(grid),
+      phi_b_(faces_.size(), 0.0),
       grad_(grid) {
   lsq_ = std::make_unique<LeastSquaresGradient>(grid, faces_, [](const BoundaryFace&) { return true; });
   check_petsc(DMCreateMatrix(grid.dm(), matrix_.out()));
@@ -46,15 +36,10 @@ void ScalarTransport::boundary_values(const MeanFlowView& flow, const Field& phi
                                       double freestream) {
   for (size_t k = 0; k < flow.boundary_faces.size(); ++k) {
     const BoundaryFace& f = flow.boundary_faces[k];
-    const BoundaryKind kind = boundaries_.spec(f.side, f.index).kind;
-    double value = phi(f.i, f.j);
-    if (kind == BoundaryKind::wall)
-      value = wall_value;
-    else if (is_dirichlet(kind, flow.boundary_flux[k]))
-      value = freestream;
-    if (boundary_function_ && (kind == BoundaryKind::wall || kind == BoundaryKind::inflow))
-      value = boundary_function_(f.centre);
-    phi_b_.at(f) = value;
+    const BoundaryCondition& bc = flow.conditions.of(f);
+    double value = bc.scalar_value(phi(f.i, f.j), flow.boundary_flux[k], {wall_value, freestream});
+    if (boundary_function_ && bc.is_prescribed()) value = boundary_function_(f.centre);
+    phi_b_[k] = value;
   }
 }
 
@@ -144,8 +129,9 @@ double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
         if (slot < 0) continue;
         const BoundaryFace& f = flow.boundary_faces[slot];
         const double flux = flow.boundary_flux[slot];
-        const BoundaryKind kind = boundaries_.spec(f.side, f.index).kind;
-        const double value = phi_b_.at(f);
+        const BoundaryCondition& bc = flow.conditions.of(f);
+        const bool is_prescribed = bc.scalar_is_prescribed(flux);
+        const double value = phi_b_[slot];
         // Entering flow carries the boundary value. Leaving flow is upwind (this cell) in the
         // matrix; through a prescribed-value face the scheme's face value, reconstructed from the
         // cell towards the prescribed value, is added as a deferred correction (second order). An
@@ -153,7 +139,7 @@ double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
         // cell Peclet numbers the outer iterations then diverge.
         if (flux >= 0.0) {
           diag += flux;
-          if (is_dirichlet(kind, flux)) {
+          if (is_prescribed) {
             const Vec2 xp = grid_.centre(i, j);
             const double phi_f = face_value(scheme_, flux, phi(i, j), value, grad_(i, j), grad_(i, j), xp,
                                             f.centre, f.centre, 0.0, Vec2{});
@@ -162,11 +148,10 @@ double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
         } else {
           rhs -= flux * value;
         }
-        if (is_dirichlet(kind, flux)) {
+        if (is_prescribed) {
           const double area = norm(f.area);
           const double s1 = dot(f.centre - grid_.centre(i, j), (1.0 / area) * f.area);
-          const double c =
-              (kind == BoundaryKind::wall && eq.wall_gamma >= 0.0 ? eq.wall_gamma : gamma(i, j)) * area / s1;
+          const double c = (bc.is_wall() && eq.wall_gamma >= 0.0 ? eq.wall_gamma : gamma(i, j)) * area / s1;
           diag += c;
           rhs += c * value;
           // Non-orthogonal correction (deferred): the cell value moved onto the face normal by its

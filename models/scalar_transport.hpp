@@ -20,7 +20,7 @@ struct ScalarEquation {
   const Field* source_p = nullptr;  ///< implicit source coefficient per unit volume, <= 0 (owned cells)
   double wall_value = 0.0;          ///< value at no-slip walls
   double wall_gamma = -1.0;         ///< diffusion coefficient at walls (< 0: use the cell value)
-  double freestream_value = 0.0;    ///< value carried in through inflow and free boundaries
+  double freestream_value = 0.0;    ///< value carried in through inflows and openings
   double relax = 0.8;
   /// Optional: value at wall/inflow faces as a function of the face centre (manufactured
   /// solutions); replaces wall_value and freestream_value there.
@@ -47,12 +47,11 @@ class ScalarTransport {
  private:
   void boundary_values(const MeanFlowView& flow, const Field& phi, double wall_value, double freestream);
   const Grid& grid_;
-  const BoundaryMap& boundaries_;
   ConvectionScheme scheme_;
   std::vector<BoundaryFace> faces_;
   std::vector<std::array<int, 4>> cell_faces_;
   std::unique_ptr<LeastSquaresGradient> lsq_;
-  BoundaryValues phi_b_;
+  std::vector<double> phi_b_;  // boundary values (faces_ order)
   std::function<double(Vec2)> boundary_function_;
   VectorField grad_;
   OwnedMat matrix_;

@@ -8,6 +8,7 @@
 #include <utility>
 #include <vector>
 
+#include "discretization/boundary_conditions.hpp"
 #include "grid/boundary.hpp"
 #include "grid/boundary_faces.hpp"
 #include "grid/grid.hpp"
@@ -18,13 +19,14 @@ namespace wallrans {
 struct MeanFlowView {
   const Grid& grid;
   const BoundaryMap& boundaries;
+  const BoundaryConditions& conditions;             ///< the condition of each boundary face
   const std::vector<BoundaryFace>& boundary_faces;  ///< owned boundary faces (owned_boundary_faces order)
   const std::vector<double>& boundary_flux;         ///< outward volume flux of each of those faces [m^2/s]
   const VectorField& velocity;
   const VectorField& grad_u;              ///< gradient of the x velocity component
   const VectorField& grad_v;              ///< gradient of the y velocity component
-  const Field& flux_east;                 ///< volumetric flux through the east face of each cell [m^2/s]
-  const Field& flux_north;                ///< volumetric flux through the north face of each cell
+  const Field& flux_east;                 ///< volume flux through the interior east face of each cell [m^2/s]
+  const Field& flux_north;                ///< volume flux through the interior north face of each cell
   const std::vector<double>& wall_shear;  ///< |tau_w| [m^2/s^2] of every wall face, global wall-face order
   double kinematic_viscosity;
 };

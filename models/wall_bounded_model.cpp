@@ -9,7 +9,7 @@ WallBoundedModel::WallBoundedModel(const CaseSpec& spec, const Grid& grid, const
       grid_(grid),
       boundaries_(boundaries),
       nu_(spec.flow.kinematic_viscosity),
-      walls_(compute_wall_distance(grid, collect_wall_faces(grid.nodes(), boundaries))),
+      walls_(compute_wall_distance(grid, collect_wall_faces(boundaries))),
       yplus_(grid),
       nut_(grid) {
   if (!boundaries.has_wall()) {

@@ -140,23 +140,10 @@ Nearest BucketGrid::nearest(Vec2 p) const {
 
 }  // namespace
 
-std::vector<WallFace> collect_wall_faces(const NodeCoordinates& nodes, const BoundaryMap& boundaries) {
-  const int nx = nodes.cells_x, ny = nodes.cells_y;
+std::vector<WallFace> collect_wall_faces(const BoundaryMap& boundaries) {
   std::vector<WallFace> walls;
-  for (Side side : {Side::left, Side::right, Side::bottom, Side::top}) {
-    const bool along_x = side == Side::bottom || side == Side::top;
-    const int n_faces = along_x ? nx : ny;
-    for (int index = 0; index < n_faces; ++index) {
-      if (boundaries.segment(side, index) < 0 || boundaries.spec(side, index).kind != BoundaryKind::wall)
-        continue;
-      if (along_x) {
-        const int j = side == Side::bottom ? 0 : ny;
-        walls.push_back({nodes.at(index, j), nodes.at(index + 1, j), side, index});
-      } else {
-        const int i = side == Side::left ? 0 : nx;
-        walls.push_back({nodes.at(i, index), nodes.at(i, index + 1), side, index});
-      }
-    }
+  for (const BoundaryFace& f : boundaries.faces()) {
+    if (boundaries.spec(f).kind == BoundaryKind::wall) walls.push_back({f.a, f.b, f.side, f.index});
   }
   return walls;
 }

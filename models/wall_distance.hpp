@@ -34,10 +34,9 @@ inline double point_segment_distance(Vec2 p, Vec2 a, Vec2 b) {
   return norm(p - (a + (along / length_squared) * edge));
 }
 
-/// Local (same result on every rank). Every face of kind wall on every side, in a fixed global
-/// order: sides left, right, bottom, top; along each side by increasing index. Periodic sides
-/// have no faces.
-std::vector<WallFace> collect_wall_faces(const NodeCoordinates& nodes, const BoundaryMap& boundaries);
+/// Local (same result on every rank). Every boundary face of kind wall, in global boundary-face id
+/// order (sides left, right, bottom, top; along each side by increasing index).
+std::vector<WallFace> collect_wall_faces(const BoundaryMap& boundaries);
 
 /// Wall distance of each cell of the ghosted range, stored in the ghosted layout (grid.local(i, j)).
 struct WallDistance {

@@ -10,7 +10,8 @@ namespace wallrans {
 
 struct RunCheckpoints::Arrays {
   std::vector<CellArray> cells;
-  std::vector<SideArray> sides;
+  BoundaryLayout layout;
+  std::vector<BoundaryArray> boundary;
   std::vector<std::pair<std::string, double*>> scalars;
   int* iteration;
 };
@@ -24,8 +25,8 @@ RunCheckpoints::Arrays RunCheckpoints::arrays() {
   SolverRestartState state = solver_.restart_state();
   for (const auto& [name, field] : state.cells) a.cells.push_back({name, field});
   for (const auto& [name, field] : model_.restart_state()) a.cells.push_back({"model_" + name, field});
-  for (const auto& [name, values] : state.left) a.sides.push_back({name, Side::left, values});
-  for (const auto& [name, values] : state.bottom) a.sides.push_back({name, Side::bottom, values});
+  a.layout = {state.boundary_ids, state.n_boundary_faces};
+  for (const auto& [name, values] : state.boundary) a.boundary.push_back({name, values});
   a.scalars = state.scalars;
   a.iteration = state.iteration;
   return a;
@@ -43,7 +44,7 @@ std::string RunCheckpoints::write(const std::string& directory, int abort_after_
   const std::string base = "checkpoint_" + std::to_string(meta.iteration);
   const std::string path = (std::filesystem::path(directory) / (base + ".h5")).string();
   const CheckpointMetadata written =
-      write_checkpoint(grid_, path, meta, a.cells, a.sides, abort_after_datasets);
+      write_checkpoint(grid_, path, meta, a.cells, a.layout, a.boundary, abort_after_datasets);
   if (grid_.rank() == 0) {
     std::vector<std::string> names;
     for (const auto& c : a.cells) names.push_back(c.name);
@@ -81,7 +82,7 @@ int RunCheckpoints::restart_from(const std::string& path) {
     }
     if (!found) mismatch("scalar '" + name + "'", "it to be stored", "no such scalar");
   }
-  read_checkpoint(grid_, path, a.cells, a.sides);
+  read_checkpoint(grid_, path, a.cells, a.layout, a.boundary);
   *a.iteration = meta.iteration;
   solver_.restarted();
   if (grid_.rank() == 0 && meta.case_hash != case_hash_) {

@@ -17,7 +17,7 @@ enum class BoundaryKind {
   inflow,   ///< prescribed velocity vector
   outflow,  ///< zero-gradient velocity, fixed static pressure
   slip,     ///< symmetry / slip wall: zero normal velocity, zero shear
-  free,     ///< free boundary: fixed static pressure; inflowing parts take `velocity`
+  opening,  ///< fixed static pressure; where flow enters, it takes `velocity`
 };
 
 struct FlowSpec {
@@ -52,8 +52,8 @@ struct BoundarySegmentSpec {
   std::optional<double> from;  ///< start coordinate along the side (x for bottom/top, y for left/right)
   std::optional<double> to;    ///< end coordinate along the side
   BoundaryKind kind = BoundaryKind::wall;
-  Vec2 velocity{0.0, 0.0};         ///< wall velocity, inflow velocity or free-stream velocity [m/s]
-  std::optional<double> pressure;  ///< outflow/free static pressure; default flow.reference_pressure
+  Vec2 velocity{0.0, 0.0};         ///< wall velocity, inflow velocity or velocity entering an opening [m/s]
+  std::optional<double> pressure;  ///< outflow/opening static pressure; default flow.reference_pressure
   int line = 0;                    ///< source line in the case file, for messages (0 = unknown)
 };
 

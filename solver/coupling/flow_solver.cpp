@@ -27,8 +27,9 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
     : spec_(spec),
       grid_(grid),
       boundaries_(boundaries),
+      conditions_(boundaries.segments(), spec.flow.reference_pressure),
       model_(model),
-      bfaces_(owned_boundary_faces(grid)),
+      bfaces_(owned_boundary_faces(grid, boundaries.faces())),
       cell_faces_(boundary_faces_by_cell(grid, bfaces_)),
       vel_(grid),
       vel_old_(grid),
@@ -45,34 +46,20 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
       flux_n_(grid),
       flux_e_old_(grid),
       flux_n_old_(grid),
-      u_b_(grid),
-      v_b_(grid),
-      p_b_(grid),
-      zero_b_(grid) {
-  for (const auto& seg : boundaries_.segments()) {
-    if (seg.kind == BoundaryKind::outflow || seg.kind == BoundaryKind::free) has_pressure_boundary_ = true;
-  }
-  // Global numbering of the wall faces: sides left, right, bottom, top, increasing index.
-  std::vector<int> first_id(4, 0);
+      u_b_(bfaces_.size(), 0.0),
+      v_b_(bfaces_.size(), 0.0),
+      p_b_(bfaces_.size(), 0.0),
+      zero_b_(bfaces_.size(), 0.0) {
+  has_pressure_boundary_ = conditions_.has_fixed_pressure();
+  // Global numbering of the wall faces: the wall faces in boundary-face id order.
+  std::vector<int> wall_of_face(boundaries_.faces().size(), -1);
   int n_walls = 0;
-  for (Side side : {Side::left, Side::right, Side::bottom, Side::top}) {
-    first_id[static_cast<int>(side)] = n_walls;
-    const int n = (side == Side::left || side == Side::right) ? grid.cells_y() : grid.cells_x();
-    if (grid.periodic_x() && (side == Side::left || side == Side::right)) continue;
-    for (int k = 0; k < n; ++k) n_walls += boundaries_.spec(side, k).kind == BoundaryKind::wall ? 1 : 0;
+  for (const BoundaryFace& f : boundaries_.faces()) {
+    if (condition(f).is_wall()) wall_of_face[f.id] = n_walls++;
   }
   wall_shear_.assign(static_cast<size_t>(n_walls), 0.0);
-  for (const auto& f : bfaces_) {
-    int id = -1;
-    if (segment(f).kind == BoundaryKind::wall) {
-      id = first_id[static_cast<int>(f.side)];
-      for (int k = 0; k < f.index; ++k) id += boundaries_.spec(f.side, k).kind == BoundaryKind::wall ? 1 : 0;
-    }
-    wall_id_.push_back(id);
-  }
+  for (const auto& f : bfaces_) wall_id_.push_back(wall_of_face[f.id]);
   bflux_.assign(bfaces_.size(), 0.0);
-  flux_w_.assign(grid.cells_y(), 0.0);
-  flux_s_.assign(grid.cells_x(), 0.0);
   lsq_all_ = std::make_unique<LeastSquaresGradient>(grid, bfaces_, [](const BoundaryFace&) { return true; });
   lsq_pressure_ = std::make_unique<LeastSquaresGradient>(
       grid, bfaces_, [this](const BoundaryFace& f) { return is_pressure_boundary(f); });
@@ -83,27 +70,30 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
   }
   for (int j = grid.gy_begin(); j < grid.gy_end(); ++j) {
     for (int i = grid.gx_begin(); i < grid.gx_end(); ++i) {
-      flux_e_(i, j) = dot(spec.flow.initial_velocity, grid.east_face(i, j).area);
-      flux_n_(i, j) = dot(spec.flow.initial_velocity, grid.north_face(i, j).area);
+      if (grid.has_east(i)) flux_e_(i, j) = dot(spec.flow.initial_velocity, grid.east_face(i, j).area);
+      if (grid.has_north(j)) flux_n_(i, j) = dot(spec.flow.initial_velocity, grid.north_face(i, j).area);
     }
   }
   update_velocity_boundary_values();
-  for (const auto& f : bfaces_) {
-    const auto kind = segment(f).kind;
-    double& flux = boundary_flux_ref(f);
-    if (kind == BoundaryKind::slip)
-      flux = 0.0;
-    else if (kind == BoundaryKind::wall || kind == BoundaryKind::inflow)
-      flux = u_b_.at(f) * f.area.x + v_b_.at(f) * f.area.y;
-    else
-      flux = dot(vel_(f.i, f.j), f.area);
+  for (size_t k = 0; k < bfaces_.size(); ++k) {
+    const BoundaryFace& f = bfaces_[k];
+    switch (condition(f).flux_prediction()) {
+      case FluxPrediction::zero:
+        bflux_[k] = 0.0;
+        break;
+      case FluxPrediction::prescribed:
+        bflux_[k] = u_b_[k] * f.area.x + v_b_[k] * f.area.y;
+        break;
+      case FluxPrediction::rhie_chow:
+        bflux_[k] = dot(vel_(f.i, f.j), f.area);  // no pressure field yet
+        break;
+    }
   }
   flux_e_.exchange();
   flux_n_.exchange();
   flux_e_old_ = flux_e_;
   flux_n_old_ = flux_n_;
-  flux_w_old_ = flux_w_;
-  flux_s_old_ = flux_s_;
+  bflux_old_ = bflux_;
   vel_old_ = vel_;
 
   // Linear solvers; defaults can be overridden by PETSc options with the equation's prefix.
@@ -148,65 +138,14 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
   diag_.assign(grid.n_owned(), 0.0);
 }
 
-bool FlowSolver::is_pressure_boundary(const BoundaryFace& f) const {
-  const auto kind = segment(f).kind;
-  return kind == BoundaryKind::outflow || kind == BoundaryKind::free;
-}
-
-double& FlowSolver::boundary_flux_ref(const BoundaryFace& f) {
-  switch (f.side) {
-    case Side::left:
-      return flux_w_[f.index];
-    case Side::bottom:
-      return flux_s_[f.index];
-    case Side::right:
-      return flux_e_(f.i, f.j);
-    case Side::top:
-      return flux_n_(f.i, f.j);
-  }
-  return flux_w_[0];
-}
-
-double& FlowSolver::boundary_flux_old_ref(const BoundaryFace& f) {
-  switch (f.side) {
-    case Side::left:
-      return flux_w_old_[f.index];
-    case Side::bottom:
-      return flux_s_old_[f.index];
-    case Side::right:
-      return flux_e_old_(f.i, f.j);
-    case Side::top:
-      return flux_n_old_(f.i, f.j);
-  }
-  return flux_w_old_[0];
-}
-
-double FlowSolver::boundary_flux(const BoundaryFace& f) const {
-  return const_cast<FlowSolver*>(this)->boundary_flux_ref(f);
-}
-
 void FlowSolver::update_velocity_boundary_values() {
-  for (const auto& f : bfaces_) {
-    const auto& seg = segment(f);
-    Vec2 value = vel_(f.i, f.j);
-    switch (seg.kind) {
-      case BoundaryKind::wall:
-      case BoundaryKind::inflow:
-        value = boundary_velocity_ ? boundary_velocity_(f.centre) : seg.velocity;
-        break;
-      case BoundaryKind::outflow:
-        break;  // zero normal gradient
-      case BoundaryKind::free:
-        if (iteration_ > 0 && boundary_flux(f) < 0.0) value = seg.velocity;
-        break;
-      case BoundaryKind::slip: {
-        const Vec2 n = (1.0 / norm(f.area)) * f.area;
-        value = value - dot(value, n) * n;
-        break;
-      }
-    }
-    u_b_.at(f) = value.x;
-    v_b_.at(f) = value.y;
+  for (size_t k = 0; k < bfaces_.size(); ++k) {
+    const BoundaryFace& f = bfaces_[k];
+    const BoundaryCondition& bc = condition(f);
+    Vec2 value = bc.face_velocity(f, vel_(f.i, f.j), bflux_[k]);
+    if (boundary_velocity_ && bc.is_prescribed()) value = boundary_velocity_(f.centre);
+    u_b_[k] = value.x;
+    v_b_[k] = value.y;
   }
 }
 
@@ -215,9 +154,10 @@ void FlowSolver::update_pressure_gradient_and_boundary_values() {
   // normal from the two nearest cells (cell values moved onto the normal with the previous
   // gradient), which is second-order accurate; the value then enters the least-squares fit like
   // an imposed one, so boundary cells get a two-sided gradient.
-  for (const auto& f : bfaces_) {
+  for (size_t k = 0; k < bfaces_.size(); ++k) {
+    const BoundaryFace& f = bfaces_[k];
     if (is_pressure_boundary(f)) {
-      p_b_.at(f) = segment(f).pressure.value_or(spec_.flow.reference_pressure);
+      p_b_[k] = condition(f).pressure();
       continue;
     }
     const Vec2 n = (1.0 / norm(f.area)) * f.area;
@@ -228,11 +168,11 @@ void FlowSolver::update_pressure_gradient_and_boundary_values() {
     };
     double s1 = 0, v1 = 0;
     along_normal(f.i, f.j, s1, v1);
-    p_b_.at(f) = v1;
+    p_b_[k] = v1;
     if (f.has_second) {
       double s2 = 0, v2 = 0;
       along_normal(f.i2, f.j2, s2, v2);
-      if (s2 > 1.05 * s1) p_b_.at(f) = v1 - s1 * (v2 - v1) / (s2 - s1);
+      if (s2 > 1.05 * s1) p_b_[k] = v1 - s1 * (v2 - v1) / (s2 - s1);
     }
   }
   lsq_all_->compute(p_, p_b_, grad_p_);
@@ -247,8 +187,7 @@ IterationStatus FlowSolver::iterate() {
   vel_old_ = vel_;
   flux_e_old_ = flux_e_;
   flux_n_old_ = flux_n_;
-  flux_w_old_ = flux_w_;
-  flux_s_old_ = flux_s_;
+  bflux_old_ = bflux_;
 
   const Field& nut = model_.eddy_viscosity();
   for (size_t k = 0; k < nu_eff_.data().size(); ++k)
@@ -274,7 +213,6 @@ IterationStatus FlowSolver::iterate() {
 
   phase.emplace(stages_.monitors);
   update_velocity_boundary_values();
-  for (size_t k = 0; k < bfaces_.size(); ++k) bflux_[k] = boundary_flux(bfaces_[k]);
   refresh_wall_shear();
   phase.emplace(stages_.turbulence);
   model_.update(view());
@@ -308,8 +246,9 @@ SolverRestartState FlowSolver::restart_state() {
                  {"pressure_gradient_y", &grad_p_.y},
                  {"flux_east", &flux_e_},
                  {"flux_north", &flux_n_}};
-  state.left = {{"flux_west_boundary", &flux_w_}};
-  state.bottom = {{"flux_south_boundary", &flux_s_}};
+  state.boundary = {{"boundary_flux", &bflux_}};
+  for (const BoundaryFace& f : bfaces_) state.boundary_ids.push_back(f.id);
+  state.n_boundary_faces = static_cast<int>(boundaries_.faces().size());
   state.scalars = {{"momentum_residual_reference", &reference_.u}};
   model_reference_.resize(model_.residuals().size(), 0.0);
   for (size_t k = 0; k < model_reference_.size(); ++k)
@@ -327,17 +266,9 @@ void FlowSolver::restarted() {
 }
 
 MeanFlowView FlowSolver::view() const {
-  return MeanFlowView{grid_,
-                      boundaries_,
-                      bfaces_,
-                      bflux_,
-                      vel_,
-                      grad_u_,
-                      grad_v_,
-                      flux_e_,
-                      flux_n_,
-                      wall_shear_,
-                      spec_.flow.kinematic_viscosity};
+  return MeanFlowView{grid_,   boundaries_, conditions_, bfaces_,
+                      bflux_,  vel_,        grad_u_,     grad_v_,
+                      flux_e_, flux_n_,     wall_shear_, spec_.flow.kinematic_viscosity};
 }
 
 void FlowSolver::refresh_wall_shear() {
@@ -432,21 +363,27 @@ void FlowSolver::predict_fluxes() {
     }
   }
   const double alpha = spec_.iterations.relax_velocity;
-  for (const auto& f : bfaces_) {
-    const auto kind = segment(f).kind;
-    double& flux = boundary_flux_ref(f);
-    if (kind == BoundaryKind::slip) {
-      flux = 0.0;
-    } else if (kind == BoundaryKind::wall || kind == BoundaryKind::inflow) {
-      flux = boundary_flux_fn_ ? boundary_flux_fn_(f.centre, f.area)
-                               : u_b_.at(f) * f.area.x + v_b_.at(f) * f.area.y;
-    } else {
-      const Vec2 xp = grid_.centre(f.i, f.j);
-      const Vec2 d = f.centre - xp;
-      const double k = dot(f.area, f.area) / dot(f.area, d);
-      const double memory = (1.0 - alpha) * (boundary_flux_old_ref(f) - dot(vel_old_(f.i, f.j), f.area));
-      flux = dot(vel_(f.i, f.j), f.area) +
-             d_rc_(f.i, f.j) * k * (dot(grad_p_(f.i, f.j), d) - (p_b_.at(f) - p_(f.i, f.j))) + memory;
+  for (size_t k = 0; k < bfaces_.size(); ++k) {
+    const BoundaryFace& f = bfaces_[k];
+    double& flux = bflux_[k];
+    switch (condition(f).flux_prediction()) {
+      case FluxPrediction::zero:
+        flux = 0.0;
+        break;
+      case FluxPrediction::prescribed:
+        flux =
+            boundary_flux_fn_ ? boundary_flux_fn_(f.centre, f.area) : u_b_[k] * f.area.x + v_b_[k] * f.area.y;
+        break;
+      case FluxPrediction::rhie_chow: {
+        // Rhie-Chow between the owner cell and the face, with the boundary pressure p_b.
+        const Vec2 xp = grid_.centre(f.i, f.j);
+        const Vec2 d = f.centre - xp;
+        const double kf = dot(f.area, f.area) / dot(f.area, d);
+        const double memory = (1.0 - alpha) * (bflux_old_[k] - dot(vel_old_(f.i, f.j), f.area));
+        flux = dot(vel_(f.i, f.j), f.area) +
+               d_rc_(f.i, f.j) * kf * (dot(grad_p_(f.i, f.j), d) - (p_b_[k] - p_(f.i, f.j))) + memory;
+        break;
+      }
     }
   }
   flux_e_.exchange();
@@ -485,10 +422,13 @@ void FlowSolver::assemble_and_solve_pressure_correction(IterationStatus& status)
       if (grid_.has_west(i)) add(i - 1, j, pressure_coefficient(i - 1, j, i, j, grid_.east_face(i - 1, j)));
       if (grid_.has_north(j)) add(i, j + 1, pressure_coefficient(i, j, i, j + 1, grid_.north_face(i, j)));
       if (grid_.has_south(j)) add(i, j - 1, pressure_coefficient(i, j - 1, i, j, grid_.north_face(i, j - 1)));
-      net_out += flux_e_(i, j) + flux_n_(i, j);
-      // West/south boundary fluxes are stored outward (out of the domain and of this cell).
-      net_out += (i == 0 && !grid_.periodic_x()) ? flux_w_[j] : -flux_e_(i - 1, j);
-      net_out += (j == 0) ? flux_s_[i] : -flux_n_(i, j - 1);
+      if (grid_.has_east(i)) net_out += flux_e_(i, j);
+      if (grid_.has_north(j)) net_out += flux_n_(i, j);
+      if (grid_.has_west(i)) net_out -= flux_e_(i - 1, j);
+      if (grid_.has_south(j)) net_out -= flux_n_(i, j - 1);
+      for (int slot : cell_faces_[grid_.owned(i, j)]) {
+        if (slot >= 0) net_out += bflux_[slot];  // stored outward: out of the domain and this cell
+      }
       b[j][i] = -net_out;
       imbalance += std::abs(net_out);
       check_petsc(MatSetValuesStencil(a, 1, &row, n, cols, vals, ADD_VALUES));
@@ -525,10 +465,11 @@ void FlowSolver::correct() {
             pressure_coefficient(i, j, i, j + 1, grid_.north_face(i, j)) * (pc_(i, j + 1) - pc_(i, j));
     }
   }
-  for (const auto& f : bfaces_) {
+  for (size_t k = 0; k < bfaces_.size(); ++k) {
+    const BoundaryFace& f = bfaces_[k];
     if (!is_pressure_boundary(f)) continue;
     const Vec2 d = f.centre - grid_.centre(f.i, f.j);
-    boundary_flux_ref(f) += d_corr_(f.i, f.j) * dot(f.area, f.area) / dot(f.area, d) * pc_(f.i, f.j);
+    bflux_[k] += d_corr_(f.i, f.j) * dot(f.area, f.area) / dot(f.area, d) * pc_(f.i, f.j);
   }
   lsq_pressure_->compute(pc_, zero_b_, grad_pc_);
   const double alpha_p = spec_.iterations.relax_pressure;
@@ -562,18 +503,19 @@ namespace wallrans {
 std::vector<WallSample> FlowSolver::wall_samples() const {
   std::vector<WallSample> out;
   const double dynamic = 0.5 * spec_.flow.reference_velocity * spec_.flow.reference_velocity;
-  for (const auto& f : bfaces_) {
-    if (segment(f).kind != BoundaryKind::wall) continue;
+  for (size_t k = 0; k < bfaces_.size(); ++k) {
+    const BoundaryFace& f = bfaces_[k];
+    if (!condition(f).is_wall()) continue;
     const Vec2 n = (1.0 / norm(f.area)) * f.area;
     Vec2 t{-n.y, n.x};
     if (t.x < 0.0 || (t.x == 0.0 && t.y < 0.0)) t = -1.0 * t;
     // Velocity derivative into the fluid, second order (see normal_derivative).
-    const double du = -normal_derivative(vel_.x, grad_u_, u_b_.at(f), f);
-    const double dv = -normal_derivative(vel_.y, grad_v_, v_b_.at(f), f);
+    const double du = -normal_derivative(vel_.x, grad_u_, u_b_[k], f);
+    const double dv = -normal_derivative(vel_.y, grad_v_, v_b_[k], f);
     const double tau = spec_.flow.kinematic_viscosity * (du * t.x + dv * t.y);
     const double s1 = dot(f.centre - grid_.centre(f.i, f.j), n);
     out.push_back({f.side, f.index, f.centre, tau, tau / dynamic,
-                   (p_b_.at(f) - spec_.flow.reference_pressure) / dynamic, s1});
+                   (p_b_[k] - spec_.flow.reference_pressure) / dynamic, s1});
   }
   return out;
 }

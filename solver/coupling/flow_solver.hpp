@@ -8,6 +8,7 @@
 
 #include "core/case_spec.hpp"
 #include "coupling/iteration_stages.hpp"
+#include "discretization/boundary_conditions.hpp"
 #include "discretization/least_squares_gradient.hpp"
 #include "grid/boundary.hpp"
 #include "grid/boundary_faces.hpp"
@@ -46,9 +47,13 @@ struct WallSample {
 
 /// Everything the solver needs to continue bit-identically from a checkpoint, borrowed.
 struct SolverRestartState {
-  std::vector<std::pair<std::string, Field*>> cells;                       ///< cell fields, global (i, j)
-  std::vector<std::pair<std::string, std::vector<double>*>> left, bottom;  ///< boundary-face arrays
-  std::vector<std::pair<std::string, double*>> scalars;                    ///< residual references
+  std::vector<std::pair<std::string, Field*>> cells;  ///< cell fields, global (i, j)
+  /// Arrays over the owned boundary faces (boundary_faces() order); the face with position k
+  /// has global id boundary_ids[k] out of n_boundary_faces.
+  std::vector<std::pair<std::string, std::vector<double>*>> boundary;
+  std::vector<int> boundary_ids;
+  int n_boundary_faces = 0;
+  std::vector<std::pair<std::string, double*>> scalars;  ///< residual references
   int* iteration;
 };
 
@@ -81,9 +86,10 @@ class FlowSolver {
   const Grid& grid() const { return grid_; }
   /// Local: the no-slip wall faces owned by this rank.
   std::vector<WallSample> wall_samples() const;
-  /// Local: flux through the boundary face [m^2/s], positive out of the domain.
-  double boundary_flux(const BoundaryFace& face) const;
+  /// The boundary faces of the owned cells (global-id order) and the volume flux through each
+  /// [m^2/s], positive out of the domain (same order).
   const std::vector<BoundaryFace>& boundary_faces() const { return bfaces_; }
+  const std::vector<double>& boundary_fluxes() const { return bflux_; }
   /// |tau_w| of every no-slip wall face of the domain (order: left, right, bottom, top sides,
   /// increasing index), the same on every rank; refreshed each iteration.
   const std::vector<double>& wall_shear() const { return wall_shear_; }
@@ -107,17 +113,16 @@ class FlowSolver {
   double interior_flux(int il, int jl, int ir, int jr, const FaceGeometry& face, double flux_old) const;
   double normal_derivative(const Field& phi, const VectorField& grad, double phi_b,
                            const BoundaryFace& face) const;
-  double& boundary_flux_ref(const BoundaryFace& face);
-  double& boundary_flux_old_ref(const BoundaryFace& face);
-  const BoundarySegmentSpec& segment(const BoundaryFace& face) const {
-    return boundaries_.spec(face.side, face.index);
+  const BoundaryCondition& condition(const BoundaryFace& face) const { return conditions_.of(face); }
+  bool is_pressure_boundary(const BoundaryFace& face) const {
+    return condition(face).pressure_role() == PressureRole::fixed;
   }
-  bool is_pressure_boundary(const BoundaryFace& face) const;
   void solve_linear(KSP ksp, Vec rhs, Field& solution, int& iterations, bool& converged);
 
   const CaseSpec& spec_;
   const Grid& grid_;
   const BoundaryMap& boundaries_;
+  BoundaryConditions conditions_;  // one per segment
   TurbulenceModel& model_;
   std::vector<BoundaryFace> bfaces_;
   std::vector<std::array<int, 4>> cell_faces_;  // boundary faces of each owned cell
@@ -126,15 +131,16 @@ class FlowSolver {
   void refresh_wall_shear();
   MeanFlowView view() const;
   bool has_pressure_boundary_ = false;
-  std::vector<double> bflux_;       // outward flux of each owned boundary face (bfaces_ order)
+  std::vector<double> bflux_, bflux_old_;  // outward flux of each owned boundary face (bfaces_ order)
   std::vector<int> wall_id_;        // global wall-face id of each owned boundary face, -1 if not a wall
   std::vector<double> wall_shear_;  // |tau_w| per global wall face
   int iteration_ = 0;
 
   VectorField vel_, vel_old_, grad_u_, grad_v_, grad_p_, grad_pc_;
+  // Interior-face fluxes: flux_e_(i, j) through the face between (i, j) and (i + 1, j),
+  // flux_n_(i, j) between (i, j) and (i, j + 1); boundary faces are in bflux_.
   Field p_, pc_, nu_eff_, d_rc_, d_corr_, flux_e_, flux_n_, flux_e_old_, flux_n_old_;
-  std::vector<double> flux_w_, flux_s_, flux_w_old_, flux_s_old_;  // west/south boundary faces
-  BoundaryValues u_b_, v_b_, p_b_, zero_b_;
+  std::vector<double> u_b_, v_b_, p_b_, zero_b_;  // boundary values (bfaces_ order)
   std::unique_ptr<LeastSquaresGradient> lsq_all_, lsq_pressure_;
   std::vector<double> rhs_u_, rhs_v_, diag_;  // owned order
 

@@ -129,49 +129,26 @@ void FlowSolver::assemble_momentum(ResidualNorms& residual) {
       if (grid_.has_north(j)) as_left(i, j + 1, grid_.north_face(i, j), flux_n_(i, j));
       if (grid_.has_south(j)) as_right(i, j - 1, grid_.north_face(i, j - 1), flux_n_(i, j - 1));
 
+      // Boundary faces: each face's condition adds its convection and diffusion terms.
       for (int slot : cell_faces_[o]) {
         if (slot < 0) continue;
         const BoundaryFace& f = bfaces_[slot];
-        const auto& seg = segment(f);
-        const double flux = boundary_flux(f);
         const double area = norm(f.area);
-        const double ub = u_b_.at(f), vb = v_b_.at(f);
-        const double s1 = dot(f.centre - xp, (1.0 / area) * f.area);
-        switch (seg.kind) {
-          case BoundaryKind::wall:
-          case BoundaryKind::inflow: {
-            // The face value is known, in or out: convect it (an upwind cell value here would
-            // be first order where flow leaves through a prescribed-velocity boundary).
-            bu -= flux * ub;
-            bv -= flux * vb;
-            const double nu_w = seg.kind == BoundaryKind::wall ? nu : nu_eff_(i, j);
-            const double c = nu_w * area / s1;
-            diag += c;
-            bu +=
-                c * ub + nu_w * area * (normal_derivative(vel_.x, grad_u_, ub, f) - (ub - vel_.x(i, j)) / s1);
-            bv +=
-                c * vb + nu_w * area * (normal_derivative(vel_.y, grad_v_, vb, f) - (vb - vel_.y(i, j)) / s1);
-            break;
-          }
-          case BoundaryKind::outflow:
-          case BoundaryKind::free:
-            diag += std::max(flux, 0.0);
-            if (flux < 0.0) {
-              const Vec2 carried = seg.kind == BoundaryKind::free ? seg.velocity : vel_(i, j);
-              bu -= flux * carried.x;
-              bv -= flux * carried.y;
-            }
-            break;
-          case BoundaryKind::slip: {
-            // Shear-free: only the normal velocity component feels the boundary (lagged split so
-            // that u and v share one matrix).
-            const double c = nu_eff_(i, j) * area / s1;
-            diag += c;
-            bu += c * ub;
-            bv += c * vb;
-            break;
-          }
-        }
+        const double ub = u_b_[slot], vb = v_b_[slot];
+        const MomentumFaceInput in{
+            bflux_[slot],
+            {ub, vb},
+            vel_(i, j),
+            {normal_derivative(vel_.x, grad_u_, ub, f), normal_derivative(vel_.y, grad_v_, vb, f)},
+            area,
+            dot(f.centre - xp, (1.0 / area) * f.area),
+            nu,
+            nu_eff_(i, j)};
+        MomentumRow row{diag, bu, bv};
+        condition(f).add_momentum(in, row);
+        diag = row.diag;
+        bu = row.rhs_u;
+        bv = row.rhs_v;
       }
       res_u += std::abs(bu + off_u - diag * vel_.x(i, j));
       res_v += std::abs(bv + off_v - diag * vel_.y(i, j));

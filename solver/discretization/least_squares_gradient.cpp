@@ -58,7 +58,8 @@ LeastSquaresGradient::LeastSquaresGradient(const Grid& grid, const std::vector<B
   }
 }
 
-void LeastSquaresGradient::compute(const Field& phi, const BoundaryValues& phi_b, VectorField& grad) const {
+void LeastSquaresGradient::compute(const Field& phi, const std::vector<double>& phi_b,
+                                   VectorField& grad) const {
   for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
     for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
       const double p = phi(i, j);
@@ -71,7 +72,7 @@ void LeastSquaresGradient::compute(const Field& phi, const BoundaryValues& phi_b
       for_each_neighbour(grid_, i, j, [&](int in, int jn, Vec2 d) { add(d, phi(in, jn) - p); });
       const CellFit& fit = fits_[grid_.owned(i, j)];
       for (int s : fit.boundary) {
-        if (s >= 0) add(faces_[s].centre - grid_.centre(i, j), phi_b.at(faces_[s]) - p);
+        if (s >= 0) add(faces_[s].centre - grid_.centre(i, j), phi_b[s] - p);
       }
       grad.set(i, j, {fit.inv_xx * bx + fit.inv_xy * by, fit.inv_xy * bx + fit.inv_yy * by});
     }

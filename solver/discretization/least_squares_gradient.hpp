@@ -17,9 +17,10 @@ class LeastSquaresGradient {
   LeastSquaresGradient(const Grid& grid, const std::vector<BoundaryFace>& faces,
                        const std::function<bool(const BoundaryFace&)>& include);
 
-  /// Local: gradient of `phi` in the owned cells (ghosts of `phi` must be current). Call
-  /// grad.exchange() afterwards when ghost gradients are needed.
-  void compute(const Field& phi, const BoundaryValues& phi_b, VectorField& grad) const;
+  /// Local: gradient of `phi` in the owned cells (ghosts of `phi` must be current); `phi_b` holds
+  /// one value per face of `faces` (same order). Call grad.exchange() afterwards when ghost
+  /// gradients are needed.
+  void compute(const Field& phi, const std::vector<double>& phi_b, VectorField& grad) const;
 
  private:
   struct CellFit {

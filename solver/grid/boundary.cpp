@@ -38,29 +38,28 @@ const char* to_string(BoundaryKind kind) {
       return "outflow";
     case BoundaryKind::slip:
       return "slip";
-    case BoundaryKind::free:
-      return "free";
+    case BoundaryKind::opening:
+      return "opening";
   }
   return "?";
 }
 
-BoundaryMap::BoundaryMap(const CaseSpec& spec, const NodeCoordinates& nodes) : segments_(spec.boundaries) {
-  const int nx = nodes.cells_x, ny = nodes.cells_y;
-  const bool periodic_x = spec.periodic.axis == PeriodicAxis::x;
+BoundaryMap::BoundaryMap(const CaseSpec& spec, const NodeCoordinates& nodes)
+    : segments_(spec.boundaries),
+      faces_(domain_boundary_faces(nodes, spec.periodic.axis == PeriodicAxis::x)) {
   auto key = [](size_t s) { return "key 'boundaries[" + std::to_string(s) + "]': "; };
   for (Side side : {Side::left, Side::right, Side::bottom, Side::top}) {
     const bool along_x = side == Side::bottom || side == Side::top;
-    const int n = along_x ? nx : ny;
-    auto& faces = faces_[static_cast<int>(side)];
-    faces.assign(static_cast<size_t>(n), -1);
-    const bool periodic_side = periodic_x && !along_x;
-    // Coordinate of each face centre along the side (x for bottom/top, y for left/right).
-    std::vector<double> mid(static_cast<size_t>(n));
-    for (int k = 0; k < n; ++k) {
-      const Vec2 a =
-          along_x ? nodes.at(k, side == Side::bottom ? 0 : ny) : nodes.at(side == Side::left ? 0 : nx, k);
-      const Vec2 b = along_x ? nodes.at(k + 1, side == Side::bottom ? 0 : ny)
-                             : nodes.at(side == Side::left ? 0 : nx, k + 1);
+    // The faces of this side (none on a periodic side) and the coordinate of each face centre
+    // along it (x for bottom/top, y for left/right).
+    std::vector<BoundaryFace*> on_side;
+    for (BoundaryFace& f : faces_) {
+      if (f.side == side) on_side.push_back(&f);
+    }
+    const size_t n = on_side.size();
+    std::vector<double> mid(n);
+    for (size_t k = 0; k < n; ++k) {
+      const Vec2 a = on_side[k]->a, b = on_side[k]->b;
       mid[k] = along_x ? 0.5 * (a.x + b.x) : 0.5 * (a.y + b.y);
     }
     int first_line = 0;
@@ -68,24 +67,25 @@ BoundaryMap::BoundaryMap(const CaseSpec& spec, const NodeCoordinates& nodes) : s
       const auto& seg = segments_[s];
       if (seg.side != side) continue;
       if (first_line == 0) first_line = seg.line;
-      if (periodic_side) {
+      if (n == 0) {
         throw InputError(where(spec, seg.line) + ": " + key(s) + "expected no segment on side '" +
                          to_string(side) + "' (periodic.axis: x makes it periodic), got kind '" +
                          to_string(seg.kind) + "'");
       }
       int covered = 0;
-      for (int k = 0; k < n; ++k) {
+      for (size_t k = 0; k < n; ++k) {
         if (seg.from && mid[k] < *seg.from) continue;
         if (seg.to && mid[k] > *seg.to) continue;
-        if (faces[k] >= 0) {
+        const int taken = on_side[k]->segment;
+        if (taken >= 0) {
           throw InputError(where(spec, seg.line) + ": " + key(s) +
                            "expected faces not covered by another segment, got "
                            "an overlap with boundaries[" +
-                           std::to_string(faces[k]) + "] (line " + std::to_string(segments_[faces[k]].line) +
+                           std::to_string(taken) + "] (line " + std::to_string(segments_[taken].line) +
                            ") on side '" + to_string(side) + "' at " + (along_x ? "x = " : "y = ") +
                            std::to_string(mid[k]));
         }
-        faces[k] = static_cast<int>(s);
+        on_side[k]->segment = static_cast<int>(s);
         ++covered;
       }
       if (covered == 0) {
@@ -96,23 +96,19 @@ BoundaryMap::BoundaryMap(const CaseSpec& spec, const NodeCoordinates& nodes) : s
                          std::to_string(mid.back()) + "), got none");
       }
     }
-    if (!periodic_side) {
-      for (int k = 0; k < n; ++k) {
-        if (faces[k] < 0) {
-          throw InputError(where(spec, first_line) + ": key 'boundaries': expected segments covering side '" +
-                           to_string(side) + "' completely, got no segment for the face at " +
-                           (along_x ? "x = " : "y = ") + std::to_string(mid[k]));
-        }
+    for (size_t k = 0; k < n; ++k) {
+      if (on_side[k]->segment < 0) {
+        throw InputError(where(spec, first_line) + ": key 'boundaries': expected segments covering side '" +
+                         to_string(side) + "' completely, got no segment for the face at " +
+                         (along_x ? "x = " : "y = ") + std::to_string(mid[k]));
       }
     }
   }
 }
 
 bool BoundaryMap::has_wall() const {
-  for (const auto& faces : faces_) {
-    for (int s : faces) {
-      if (s >= 0 && segments_[s].kind == BoundaryKind::wall) return true;
-    }
+  for (const BoundaryFace& f : faces_) {
+    if (spec(f).kind == BoundaryKind::wall) return true;
   }
   return false;
 }

@@ -5,12 +5,13 @@
 #include <vector>
 
 #include "core/case_spec.hpp"
+#include "grid/boundary_faces.hpp"
 #include "meshes/node_coordinates.hpp"
 
 namespace wallrans {
 
-/// For each side, the segment index (into CaseSpec::boundaries) of every face along that side,
-/// indexed by i (bottom/top) or j (left/right). Periodic sides hold -1.
+/// The domain's boundary faces (domain_boundary_faces order, the global ids) with the segment of
+/// each face set.
 class BoundaryMap {
  public:
   /// Local (same on every rank). Throws InputError naming the case file and line when a face is
@@ -18,15 +19,16 @@ class BoundaryMap {
   /// segment covers no face.
   BoundaryMap(const CaseSpec& spec, const NodeCoordinates& nodes);
 
-  int segment(Side side, int index) const { return faces_[static_cast<int>(side)][index]; }
-  const BoundarySegmentSpec& spec(Side side, int index) const { return segments_[segment(side, index)]; }
+  /// Every boundary face of the domain, indexed by global id.
+  const std::vector<BoundaryFace>& faces() const { return faces_; }
+  const BoundarySegmentSpec& spec(const BoundaryFace& face) const { return segments_[face.segment]; }
   const std::vector<BoundarySegmentSpec>& segments() const { return segments_; }
   /// True if any face of the domain is a no-slip wall.
   bool has_wall() const;
 
  private:
   std::vector<BoundarySegmentSpec> segments_;
-  std::vector<int> faces_[4];
+  std::vector<BoundaryFace> faces_;
 };
 
 }  // namespace wallrans

@@ -1,38 +1,51 @@
-// Boundary faces of owned cells with their outward geometry.
+// Boundary faces of the single block with their outward geometry, numbered once for all ranks.
 #include "grid/boundary_faces.hpp"
 
 namespace wallrans {
 
-std::vector<BoundaryFace> owned_boundary_faces(const Grid& grid) {
+std::vector<BoundaryFace> domain_boundary_faces(const NodeCoordinates& nodes, bool periodic_x) {
   std::vector<BoundaryFace> faces;
-  const int nx = grid.cells_x(), ny = grid.cells_y();
-  if (!grid.periodic_x()) {
-    if (grid.x_begin() == 0) {
-      for (int j = grid.y_begin(); j < grid.y_end(); ++j) {
-        const auto& g = grid.east_face(-1, j);
-        faces.push_back({Side::left, j, 0, j, 1, j, nx > 1, -1.0 * g.area, g.centre});
-      }
-    }
-    if (grid.x_end() == nx) {
-      for (int j = grid.y_begin(); j < grid.y_end(); ++j) {
-        const auto& g = grid.east_face(nx - 1, j);
-        faces.push_back({Side::right, j, nx - 1, j, nx - 2, j, nx > 1, g.area, g.centre});
-      }
-    }
+  const int nx = nodes.cells_x, ny = nodes.cells_y;
+  // Face normals as the grid computes them: (dy, -dx) towards +i along an edge running towards
+  // +j, (-dy, dx) towards +j along an edge running towards +i; negated on the left and bottom.
+  auto add = [&](Side side, int index, int i, int j, int i2, int j2, bool has_second, Vec2 a, Vec2 b) {
+    const Vec2 edge = b - a;
+    const bool along_x = side == Side::bottom || side == Side::top;
+    const Vec2 towards_increasing = along_x ? Vec2{-edge.y, edge.x} : Vec2{edge.y, -edge.x};
+    const bool outward_is_decreasing = side == Side::left || side == Side::bottom;
+    BoundaryFace f;
+    f.id = static_cast<int>(faces.size());
+    f.i = i;
+    f.j = j;
+    f.i2 = i2;
+    f.j2 = j2;
+    f.has_second = has_second;
+    f.area = outward_is_decreasing ? -1.0 * towards_increasing : towards_increasing;
+    f.centre = 0.5 * (a + b);
+    f.a = a;
+    f.b = b;
+    f.side = side;
+    f.index = index;
+    faces.push_back(f);
+  };
+  if (!periodic_x) {
+    for (int j = 0; j < ny; ++j) add(Side::left, j, 0, j, 1, j, nx > 1, nodes.at(0, j), nodes.at(0, j + 1));
+    for (int j = 0; j < ny; ++j)
+      add(Side::right, j, nx - 1, j, nx - 2, j, nx > 1, nodes.at(nx, j), nodes.at(nx, j + 1));
   }
-  if (grid.y_begin() == 0) {
-    for (int i = grid.x_begin(); i < grid.x_end(); ++i) {
-      const auto& g = grid.north_face(i, -1);
-      faces.push_back({Side::bottom, i, i, 0, i, 1, ny > 1, -1.0 * g.area, g.centre});
-    }
-  }
-  if (grid.y_end() == ny) {
-    for (int i = grid.x_begin(); i < grid.x_end(); ++i) {
-      const auto& g = grid.north_face(i, ny - 1);
-      faces.push_back({Side::top, i, i, ny - 1, i, ny - 2, ny > 1, g.area, g.centre});
-    }
-  }
+  for (int i = 0; i < nx; ++i) add(Side::bottom, i, i, 0, i, 1, ny > 1, nodes.at(i, 0), nodes.at(i + 1, 0));
+  for (int i = 0; i < nx; ++i)
+    add(Side::top, i, i, ny - 1, i, ny - 2, ny > 1, nodes.at(i, ny), nodes.at(i + 1, ny));
   return faces;
+}
+
+std::vector<BoundaryFace> owned_boundary_faces(const Grid& grid, const std::vector<BoundaryFace>& domain) {
+  std::vector<BoundaryFace> owned;
+  for (const BoundaryFace& f : domain) {
+    if (f.i >= grid.x_begin() && f.i < grid.x_end() && f.j >= grid.y_begin() && f.j < grid.y_end())
+      owned.push_back(f);
+  }
+  return owned;
 }
 
 std::vector<std::array<int, 4>> boundary_faces_by_cell(const Grid& grid,
@@ -47,13 +60,6 @@ std::vector<std::array<int, 4>> boundary_faces_by_cell(const Grid& grid,
     }
   }
   return by_cell;
-}
-
-BoundaryValues::BoundaryValues(const Grid& grid) {
-  side[static_cast<int>(Side::left)].assign(grid.cells_y(), 0.0);
-  side[static_cast<int>(Side::right)].assign(grid.cells_y(), 0.0);
-  side[static_cast<int>(Side::bottom)].assign(grid.cells_x(), 0.0);
-  side[static_cast<int>(Side::top)].assign(grid.cells_x(), 0.0);
 }
 
 }  // namespace wallrans

@@ -1,4 +1,5 @@
-// Enumeration of the boundary faces of the cells a rank owns.
+// The flat list of boundary faces: every face of the domain boundary once, with a global id that
+// does not depend on the rank count, its owner cell, outward geometry and boundary segment.
 #pragma once
 
 #include <array>
@@ -6,36 +7,39 @@
 
 #include "core/case_spec.hpp"
 #include "grid/grid.hpp"
+#include "meshes/node_coordinates.hpp"
 
 namespace wallrans {
 
-/// One boundary face of an owned cell (i, j). `area` points out of the domain.
+/// One boundary face. `area` points out of the domain.
 struct BoundaryFace {
-  Side side;
-  int index;   ///< position along the side: i for bottom/top, j for left/right
-  int i, j;    ///< the owned cell next to the face
-  int i2, j2;  ///< the next cell inwards along the grid line (valid if has_second)
-  bool has_second;
-  Vec2 area;  ///< outward area vector
-  Vec2 centre;
+  int id = -1;         ///< global id: the position in domain_boundary_faces()
+  int segment = -1;    ///< index into CaseSpec::boundaries (set by BoundaryMap; -1 before)
+  int i = 0, j = 0;    ///< the owner cell
+  int i2 = 0, j2 = 0;  ///< the next cell inwards along the grid line (valid if has_second)
+  bool has_second = false;
+  Vec2 area;    ///< outward area vector
+  Vec2 centre;  ///< face centre
+  Vec2 a, b;    ///< end nodes, in increasing grid index
+  /// Block side and position along it (i for bottom/top, j for left/right). Used only to match
+  /// the case file's segments and to label wall output.
+  Side side = Side::left;
+  int index = 0;
 };
 
-/// Local. All boundary faces of owned cells, in a fixed order (left, right, bottom, top).
-std::vector<BoundaryFace> owned_boundary_faces(const Grid& grid);
+/// Local (same on every rank). Every boundary face of the domain in global-id order: block sides
+/// left, right, bottom, top, each by increasing index; the sides of a periodic direction have
+/// none. This is the one place that decides which faces bound the domain and how they are
+/// numbered; ids are the same on any rank count.
+std::vector<BoundaryFace> domain_boundary_faces(const NodeCoordinates& nodes, bool periodic_x);
+
+/// Local. The faces of `domain` (a domain_boundary_faces() list) whose owner cell this rank owns,
+/// in global-id order. Values per boundary face are arrays in this order.
+std::vector<BoundaryFace> owned_boundary_faces(const Grid& grid, const std::vector<BoundaryFace>& domain);
 
 /// Local. For each owned cell (owned order), the positions in `faces` of its boundary faces
 /// (at most two on a single block; unused slots are -1).
 std::vector<std::array<int, 4>> boundary_faces_by_cell(const Grid& grid,
                                                        const std::vector<BoundaryFace>& faces);
-
-/// A value per boundary face, per side, indexed by the position along the side. Each rank fills
-/// the entries of its own faces only.
-struct BoundaryValues {
-  std::array<std::vector<double>, 4> side;
-  BoundaryValues() = default;
-  explicit BoundaryValues(const Grid& grid);
-  double& at(const BoundaryFace& f) { return side[static_cast<int>(f.side)][f.index]; }
-  double at(const BoundaryFace& f) const { return side[static_cast<int>(f.side)][f.index]; }
-};
 
 }  // namespace wallrans

@@ -11,6 +11,7 @@
 #include <sstream>
 #include <string>
 #include <system_error>
+#include <utility>
 #include <vector>
 
 #include "core/error.hpp"
@@ -28,7 +29,7 @@ constexpr std::array all_generators{GridGenerator::channel, GridGenerator::cavit
                                     GridGenerator::skewed_box};
 constexpr std::array all_sides{Side::left, Side::right, Side::bottom, Side::top};
 constexpr std::array all_kinds{BoundaryKind::wall, BoundaryKind::inflow, BoundaryKind::outflow,
-                               BoundaryKind::slip, BoundaryKind::free};
+                               BoundaryKind::slip, BoundaryKind::opening};
 constexpr std::array all_couplings{Coupling::simple, Coupling::simplec};
 constexpr std::array all_schemes{ConvectionScheme::upwind, ConvectionScheme::linear_upwind,
                                  ConvectionScheme::bounded_linear_upwind, ConvectionScheme::central};
@@ -210,9 +211,23 @@ PeriodicSpec read_periodic(const Value& value, const GridSpec& grid) {
 }
 
 bool takes_velocity(BoundaryKind kind) {
-  return kind == BoundaryKind::wall || kind == BoundaryKind::inflow || kind == BoundaryKind::free;
+  return kind == BoundaryKind::wall || kind == BoundaryKind::inflow || kind == BoundaryKind::opening;
 }
-bool takes_pressure(BoundaryKind kind) { return kind == BoundaryKind::outflow || kind == BoundaryKind::free; }
+bool takes_pressure(BoundaryKind kind) {
+  return kind == BoundaryKind::outflow || kind == BoundaryKind::opening;
+}
+
+// Kind names that case files used before a rename, with the name to use now.
+constexpr std::array<std::pair<const char*, const char*>, 1> renamed_kinds{{{"free", "opening"}}};
+
+BoundaryKind read_kind(const Value& value) {
+  const std::string expected = one_of(all_kinds);
+  const std::string text = value.text(expected);
+  for (const auto& [old_name, new_name] : renamed_kinds) {
+    if (text == old_name) value.fail(expected, "'" + text + "' (renamed: use '" + new_name + "')");
+  }
+  return read_enum(value, all_kinds);
+}
 
 BoundarySegmentSpec read_segment(const Value& entry, const FlowSpec& flow, const PeriodicSpec& periodic,
                                  int periodic_line) {
@@ -221,7 +236,7 @@ BoundarySegmentSpec read_segment(const Value& entry, const FlowSpec& flow, const
   segment.line = entry.line();
   const Value side = section.require("side", one_of(all_sides));
   segment.side = read_enum(side, all_sides);
-  segment.kind = read_enum(section.require("kind", one_of(all_kinds)), all_kinds);
+  segment.kind = read_kind(section.require("kind", one_of(all_kinds)));
   const std::string kind = name_of(segment.kind);
   if (const auto from = section.find("from")) segment.from = from->number(any_number);
   if (const auto to = section.find("to")) {
@@ -232,7 +247,7 @@ BoundarySegmentSpec read_segment(const Value& entry, const FlowSpec& flow, const
   }
   if (const auto velocity = section.find("velocity")) {
     if (!takes_velocity(segment.kind)) {
-      velocity->fail("no velocity for kind '" + kind + "' (only wall, inflow and free take one)");
+      velocity->fail("no velocity for kind '" + kind + "' (only wall, inflow and opening take one)");
     }
     segment.velocity = velocity->vec2(velocity_pair);
   } else if (segment.kind == BoundaryKind::inflow) {
@@ -240,7 +255,7 @@ BoundarySegmentSpec read_segment(const Value& entry, const FlowSpec& flow, const
   }
   if (const auto pressure = section.find("pressure")) {
     if (!takes_pressure(segment.kind)) {
-      pressure->fail("no pressure for kind '" + kind + "' (only outflow and free take one)");
+      pressure->fail("no pressure for kind '" + kind + "' (only outflow and opening take one)");
     }
     segment.pressure = pressure->number(any_number);
   } else if (takes_pressure(segment.kind)) {

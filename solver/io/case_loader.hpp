@@ -10,7 +10,7 @@ namespace wallrans {
 
 /// Reads and validates the case file at `path`. Local (no MPI): every rank that calls it reads
 /// the same file and fails the same way. Sets CaseSpec::source_file to `path` and each segment's
-/// `line`, and fills every default, including the pressure of outflow/free segments
+/// `line`, and fills every default, including the pressure of outflow/opening segments
 /// (flow.reference_pressure). Throws InputError with a one-line
 /// "<path>:<line>: key '<dotted.key>': expected ..., got ..." message for an unreadable file,
 /// malformed YAML, unknown or repeated keys, wrong types, out-of-range or inconsistent values.

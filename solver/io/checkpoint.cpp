@@ -1,6 +1,6 @@
-// Collective checkpoint writing and reading with parallel HDF5: MPI-IO driver, collective
-// hyperslab transfers of each rank's owned block. Rank 0 validates a file alone before any
-// collective HDF5 call touches it, and every step ends with a failure agreement across ranks.
+// Collective checkpoint writing and reading with parallel HDF5 (MPI-IO driver; each rank's part
+// of a dataset and the transfers are in checkpoint_transfer.cpp). Rank 0 validates a file alone
+// before any collective HDF5 call touches it, and every step ends with a failure agreement.
 #include "io/checkpoint.hpp"
 
 #include <fcntl.h>
@@ -18,6 +18,7 @@
 
 #include "core/error.hpp"
 #include "io/checkpoint_format.hpp"
+#include "io/checkpoint_transfer.hpp"
 #include "io/hdf5_attributes.hpp"
 #include "io/hdf5_handles.hpp"
 #include "io/rank_agreement.hpp"
@@ -28,162 +29,18 @@ namespace {
 
 namespace fs = std::filesystem;
 namespace format = checkpoint_format;
-
-// One rank's part of a dataset: the global dimensions and the start and size of the block this
-// rank transfers (all sizes zero on a rank that owns none of it).
-struct Block {
-  std::vector<hsize_t> global, start, count;
-  size_t size() const {
-    size_t n = 1;
-    for (const hsize_t c : count) n *= static_cast<size_t>(c);
-    return n;
-  }
-};
-
-hsize_t to_hsize(int value) { return static_cast<hsize_t>(value); }
-
-Block cell_block(const Grid& grid) {
-  return {{to_hsize(grid.cells_y()), to_hsize(grid.cells_x())},
-          {to_hsize(grid.y_begin()), to_hsize(grid.x_begin())},
-          {to_hsize(grid.y_end() - grid.y_begin()), to_hsize(grid.x_end() - grid.x_begin())}};
-}
-
-// Nodes of the owned cells, without the far column/row unless this rank owns the last cells, so
-// the ranks' blocks are disjoint and cover all nodes.
-Block node_block(const Grid& grid) {
-  const int extra_x = grid.x_end() == grid.cells_x() ? 1 : 0,
-            extra_y = grid.y_end() == grid.cells_y() ? 1 : 0;
-  return {
-      {to_hsize(grid.cells_y() + 1), to_hsize(grid.cells_x() + 1)},
-      {to_hsize(grid.y_begin()), to_hsize(grid.x_begin())},
-      {to_hsize(grid.y_end() - grid.y_begin() + extra_y), to_hsize(grid.x_end() - grid.x_begin() + extra_x)}};
-}
-
-bool runs_along_x(Side side) { return side == Side::bottom || side == Side::top; }
-
-int side_length(const Grid& grid, Side side) { return runs_along_x(side) ? grid.cells_x() : grid.cells_y(); }
-
-// Positions [begin, end) along `side` of this rank's boundary faces; empty if it has none there.
-struct SideRange {
-  int begin = 0, end = 0;
-};
-
-SideRange owned_side_range(const Grid& grid, Side side) {
-  switch (side) {
-    case Side::left:
-      return grid.x_begin() == 0 ? SideRange{grid.y_begin(), grid.y_end()} : SideRange{};
-    case Side::right:
-      return grid.x_end() == grid.cells_x() ? SideRange{grid.y_begin(), grid.y_end()} : SideRange{};
-    case Side::bottom:
-      return grid.y_begin() == 0 ? SideRange{grid.x_begin(), grid.x_end()} : SideRange{};
-    case Side::top:
-      return grid.y_end() == grid.cells_y() ? SideRange{grid.x_begin(), grid.x_end()} : SideRange{};
-  }
-  return {};
-}
-
-Block side_block(const Grid& grid, Side side) {
-  const SideRange range = owned_side_range(grid, side);
-  return {{to_hsize(side_length(grid, side))}, {to_hsize(range.begin)}, {to_hsize(range.end - range.begin)}};
-}
+using namespace checkpoint_transfer;
 
 std::string field_path(const std::string& name) {
   return std::string("/") + format::fields_group + "/" + name;
 }
-std::string side_path(const std::string& name) {
+std::string boundary_path(const std::string& name) {
   return std::string("/") + format::boundary_group + "/" + name;
-}
-
-// Local. Selects `block` in `file_space` (nothing if it is empty) and returns the matching
-// contiguous memory space.
-Hdf5Space select_block(hid_t file_space, const Block& block) {
-  const int rank = static_cast<int>(block.global.size());
-  if (block.size() == 0) {
-    check_hdf5(H5Sselect_none(file_space), "H5Sselect_none");
-    const std::vector<hsize_t> one(block.global.size(), 1);
-    Hdf5Space memory(check_hdf5(H5Screate_simple(rank, one.data(), nullptr), "H5Screate_simple"));
-    check_hdf5(H5Sselect_none(memory.get()), "H5Sselect_none");
-    return memory;
-  }
-  check_hdf5(H5Sselect_hyperslab(file_space, H5S_SELECT_SET, block.start.data(), nullptr, block.count.data(),
-                                 nullptr),
-             "H5Sselect_hyperslab");
-  return Hdf5Space(check_hdf5(H5Screate_simple(rank, block.count.data(), nullptr), "H5Screate_simple"));
-}
-
-Hdf5PropertyList collective_transfer() {
-  Hdf5PropertyList transfer(check_hdf5(H5Pcreate(H5P_DATASET_XFER), "H5Pcreate"));
-  check_hdf5(H5Pset_dxpl_mpio(transfer.get(), H5FD_MPIO_COLLECTIVE), "H5Pset_dxpl_mpio");
-  return transfer;
-}
-
-Hdf5PropertyList parallel_access(MPI_Comm comm) {
-  Hdf5PropertyList access(check_hdf5(H5Pcreate(H5P_FILE_ACCESS), "H5Pcreate"));
-  check_hdf5(H5Pset_fapl_mpio(access.get(), comm, MPI_INFO_NULL), "H5Pset_fapl_mpio");
-  return access;
-}
-
-// Collective. Creates dataset `name` in `group` (64-bit little-endian floats, no fill pass) with
-// an optional "side" attribute and writes this rank's block of `values` collectively.
-void write_dataset(hid_t group, const std::string& name, const Block& block,
-                   const std::vector<double>& values, hid_t transfer, const std::string& side) {
-  const Hdf5Space file_space(
-      check_hdf5(H5Screate_simple(static_cast<int>(block.global.size()), block.global.data(), nullptr),
-                 "H5Screate_simple"));
-  const Hdf5PropertyList creation(check_hdf5(H5Pcreate(H5P_DATASET_CREATE), "H5Pcreate"));
-  check_hdf5(H5Pset_fill_time(creation.get(), H5D_FILL_TIME_NEVER), "H5Pset_fill_time");
-  const Hdf5Dataset dataset(check_hdf5(H5Dcreate2(group, name.c_str(), H5T_IEEE_F64LE, file_space.get(),
-                                                  H5P_DEFAULT, creation.get(), H5P_DEFAULT),
-                                       "H5Dcreate2"));
-  if (!side.empty()) write_string_attribute(dataset.get(), format::side_attribute, side);
-  const Hdf5Space memory = select_block(file_space.get(), block);
-  const double unused = 0.0;
-  check_hdf5(H5Dwrite(dataset.get(), H5T_NATIVE_DOUBLE, memory.get(), file_space.get(), transfer,
-                      values.empty() ? &unused : values.data()),
-             "H5Dwrite");
-}
-
-// Collective. Reads this rank's block of dataset `dataset_path` (already validated by rank 0).
-std::vector<double> read_dataset(hid_t file, const std::string& dataset_path, const Block& block,
-                                 hid_t transfer) {
-  const Hdf5Dataset dataset(check_hdf5(H5Dopen2(file, dataset_path.c_str(), H5P_DEFAULT), "H5Dopen2"));
-  const Hdf5Space file_space(check_hdf5(H5Dget_space(dataset.get()), "H5Dget_space"));
-  const Hdf5Space memory = select_block(file_space.get(), block);
-  std::vector<double> values(block.size());
-  double unused = 0.0;
-  check_hdf5(H5Dread(dataset.get(), H5T_NATIVE_DOUBLE, memory.get(), file_space.get(), transfer,
-                     values.empty() ? &unused : values.data()),
-             "H5Dread");
-  return values;
-}
-
-// Local. The owned cells of `field` in block order (j-major, i fastest).
-std::vector<double> owned_values(const Grid& grid, const Field& field) {
-  std::vector<double> values;
-  values.reserve(grid.n_owned());
-  for (int j = grid.y_begin(); j < grid.y_end(); ++j) {
-    for (int i = grid.x_begin(); i < grid.x_end(); ++i) values.push_back(field(i, j));
-  }
-  return values;
-}
-
-// Local. The node coordinates (x or y) of this rank's node block.
-std::vector<double> node_values(const Grid& grid, const Block& block, bool want_x) {
-  std::vector<double> values;
-  values.reserve(block.size());
-  const int j0 = static_cast<int>(block.start[0]), i0 = static_cast<int>(block.start[1]);
-  for (int j = j0; j < j0 + static_cast<int>(block.count[0]); ++j) {
-    for (int i = i0; i < i0 + static_cast<int>(block.count[1]); ++i) {
-      const Vec2 node = grid.nodes().at(i, j);
-      values.push_back(want_x ? node.x : node.y);
-    }
-  }
-  return values;
 }
 
 // Local. Rejects a request that would give an ambiguous file or touch memory outside an array.
 void check_request(const Grid& grid, const std::string& path, const std::vector<CellArray>& cells,
-                   const std::vector<SideArray>& sides, bool writing) {
+                   const BoundaryLayout& layout, const std::vector<BoundaryArray>& boundary, bool writing) {
   const std::string where = "checkpoint '" + path + "': ";
   auto check_name = [&where](const std::string& kind, const std::string& name, std::set<std::string>& seen) {
     if (!format::is_valid_name(name)) {
@@ -192,22 +49,38 @@ void check_request(const Grid& grid, const std::string& path, const std::vector<
     }
     if (!seen.insert(name).second) throw Error(where + kind + " name '" + name + "' is used twice");
   };
-  std::set<std::string> cell_names, side_names;
+  std::set<std::string> cell_names, boundary_names;
   for (const CellArray& cell : cells) {
     check_name("cell array", cell.name, cell_names);
     if (cell.field == nullptr || cell.field->data().size() != grid.n_ghosted()) {
       throw Error(where + "cell array '" + cell.name + "' is missing or does not belong to this grid");
     }
   }
-  for (const SideArray& side : sides) {
-    check_name("side array", side.name, side_names);
-    if (side.values == nullptr) throw Error(where + "side array '" + side.name + "' has no vector");
-    const auto length = static_cast<size_t>(side_length(grid, side.side));
-    if (writing && side.values->size() != length) {
-      throw Error(where + "side array '" + side.name + "' has " + std::to_string(side.values->size()) +
-                  " values, expected " + std::to_string(length) + " (cells along side '" +
-                  to_string(side.side) + "')");
+  std::set<int> ids;
+  for (const int id : layout.ids) {
+    if (id < 0 || id >= layout.n_faces || !ids.insert(id).second) {
+      throw Error(where + "boundary face id " + std::to_string(id) + " is repeated or outside [0, " +
+                  std::to_string(layout.n_faces) + ")");
     }
+  }
+  for (const BoundaryArray& array : boundary) {
+    check_name("boundary array", array.name, boundary_names);
+    if (array.values == nullptr) throw Error(where + "boundary array '" + array.name + "' has no vector");
+    if (writing && array.values->size() != layout.ids.size()) {
+      throw Error(where + "boundary array '" + array.name + "' has " + std::to_string(array.values->size()) +
+                  " values, expected " + std::to_string(layout.ids.size()) + " (one per boundary face id)");
+    }
+  }
+}
+
+// Collective. Every rank's boundary layout must count the faces of the same domain; all ranks
+// reach the same verdict.
+void check_face_count(MPI_Comm comm, const std::string& path, const BoundaryLayout& layout) {
+  int range[2] = {-layout.n_faces, layout.n_faces};
+  check_mpi(MPI_Allreduce(MPI_IN_PLACE, range, 2, MPI_INT, MPI_MAX, comm));
+  if (-range[0] != range[1]) {
+    throw Error("checkpoint '" + path + "': ranks disagree about the number of boundary faces (" +
+                std::to_string(-range[0]) + " to " + std::to_string(range[1]) + ")");
   }
 }
 
@@ -277,11 +150,13 @@ void publish(const std::string& temporary, const std::string& path) {
 
 CheckpointMetadata write_checkpoint(const Grid& grid, const std::string& path,
                                     const CheckpointMetadata& metadata, const std::vector<CellArray>& cells,
-                                    const std::vector<SideArray>& sides, int abort_after_datasets) {
+                                    const BoundaryLayout& layout, const std::vector<BoundaryArray>& boundary,
+                                    int abort_after_datasets) {
   const QuietHdf5Errors quiet;
   const MPI_Comm comm = grid.comm();
+  check_face_count(comm, path, layout);
   agree(comm, attempt([&] {
-          check_request(grid, path, cells, sides, true);
+          check_request(grid, path, cells, layout, boundary, true);
           check_scalars(path, metadata);
         }));
   // Parallel HDF5 needs identical attribute values on every rank, so rank 0's metadata is used.
@@ -297,7 +172,7 @@ CheckpointMetadata write_checkpoint(const Grid& grid, const std::string& path,
 
   const std::string temporary = path + ".tmp";
   Hdf5File file;
-  Hdf5Group fields, boundary, nodes;
+  Hdf5Group fields, faces, nodes;
   Hdf5PropertyList transfer;
   agree(comm, attempt([&] {
           file =
@@ -309,7 +184,7 @@ CheckpointMetadata write_checkpoint(const Grid& grid, const std::string& path,
                                         "H5Gcreate2"));
           };
           fields = make_group(format::fields_group);
-          boundary = make_group(format::boundary_group);
+          faces = make_group(format::boundary_group);
           nodes = make_group(format::grid_group);
           transfer = collective_transfer();
         }));
@@ -319,27 +194,29 @@ CheckpointMetadata write_checkpoint(const Grid& grid, const std::string& path,
     if (abort_after_datasets >= 0 && n_written >= abort_after_datasets) std::raise(SIGKILL);
   };
   auto write = [&](hid_t group, const std::string& name, const Block& block,
-                   const std::vector<double>& values, const std::string& side) {
-    agree(comm, attempt([&] { write_dataset(group, name, block, values, transfer.get(), side); }));
+                   const std::vector<double>& values) {
+    agree(comm, attempt([&] { write_dataset(group, name, block, values, transfer.get()); }));
     ++n_written;
     maybe_abort();
   };
   maybe_abort();
   for (const CellArray& cell : cells) {
-    write(fields.get(), cell.name, cell_block(grid), owned_values(grid, *cell.field), "");
+    write(fields.get(), cell.name, cell_block(grid), owned_values(grid, *cell.field));
   }
-  for (const SideArray& side : sides) {
-    const SideRange range = owned_side_range(grid, side.side);
-    const std::vector<double> owned(side.values->begin() + range.begin, side.values->begin() + range.end);
-    write(boundary.get(), side.name, side_block(grid, side.side), owned, to_string(side.side));
+  const FaceOrder order = face_order(layout);
+  for (const BoundaryArray& array : boundary) {
+    std::vector<double> sorted;
+    sorted.reserve(order.positions.size());
+    for (const size_t k : order.positions) sorted.push_back((*array.values)[k]);
+    write(faces.get(), array.name, face_block(layout, order), sorted);
   }
   const Block block = node_block(grid);
-  write(nodes.get(), "x", block, node_values(grid, block, true), "");
-  write(nodes.get(), "y", block, node_values(grid, block, false), "");
+  write(nodes.get(), "x", block, node_values(grid, block, true));
+  write(nodes.get(), "y", block, node_values(grid, block, false));
 
   agree(comm, attempt([&] {
           fields.reset();
-          boundary.reset();
+          faces.reset();
           nodes.reset();
           file.close_checked("H5Fclose");
         }));
@@ -359,21 +236,22 @@ CheckpointMetadata read_checkpoint_metadata(MPI_Comm comm, const std::string& pa
 }
 
 void read_checkpoint(const Grid& grid, const std::string& path, const std::vector<CellArray>& cells,
-                     const std::vector<SideArray>& sides) {
+                     const BoundaryLayout& layout, const std::vector<BoundaryArray>& boundary) {
   const QuietHdf5Errors quiet;
   const MPI_Comm comm = grid.comm();
-  agree(comm, attempt([&] { check_request(grid, path, cells, sides, false); }));
+  check_face_count(comm, path, layout);
+  agree(comm, attempt([&] { check_request(grid, path, cells, layout, boundary, false); }));
   // Rank 0 alone finds bad files, so no rank enters a collective HDF5 call with one.
   run_on_root(comm, [&] {
     const Hdf5File file = format::open_for_validation(path);
     const auto nx = static_cast<unsigned long long>(grid.cells_x());
     const auto ny = static_cast<unsigned long long>(grid.cells_y());
     for (const CellArray& cell : cells) {
-      format::check_dataset(file.get(), path, field_path(cell.name), {ny, nx}, "cells_y x cells_x", "");
+      format::check_dataset(file.get(), path, field_path(cell.name), {ny, nx}, "cells_y x cells_x");
     }
-    for (const SideArray& side : sides) {
-      format::check_dataset(file.get(), path, side_path(side.name), {runs_along_x(side.side) ? nx : ny},
-                            runs_along_x(side.side) ? "cells_x" : "cells_y", to_string(side.side));
+    const auto n_faces = static_cast<unsigned long long>(layout.n_faces);
+    for (const BoundaryArray& array : boundary) {
+      format::check_dataset(file.get(), path, boundary_path(array.name), {n_faces}, "boundary faces");
     }
     return std::string();
   });
@@ -386,17 +264,18 @@ void read_checkpoint(const Grid& grid, const std::string& path, const std::vecto
             throw Error("checkpoint: cannot open '" + path + "' in parallel (" + hdf5_error_text() + ")");
           transfer = collective_transfer();
         }));
-  std::vector<std::vector<double>> cell_values(cells.size()), side_values(sides.size());
+  std::vector<std::vector<double>> cell_values(cells.size()), face_values(boundary.size());
   for (size_t k = 0; k < cells.size(); ++k) {
     agree(comm, attempt([&] {
             cell_values[k] =
                 read_dataset(file.get(), field_path(cells[k].name), cell_block(grid), transfer.get());
           }));
   }
-  for (size_t k = 0; k < sides.size(); ++k) {
+  const FaceOrder order = face_order(layout);
+  for (size_t k = 0; k < boundary.size(); ++k) {
     agree(comm, attempt([&] {
-            side_values[k] = read_dataset(file.get(), side_path(sides[k].name),
-                                          side_block(grid, sides[k].side), transfer.get());
+            face_values[k] = read_dataset(file.get(), boundary_path(boundary[k].name),
+                                          face_block(layout, order), transfer.get());
           }));
   }
   agree(comm, attempt([&] { file.close_checked("H5Fclose"); }));
@@ -410,11 +289,10 @@ void read_checkpoint(const Grid& grid, const std::string& path, const std::vecto
     }
     field.exchange();
   }
-  for (size_t k = 0; k < sides.size(); ++k) {
-    std::vector<double>& values = *sides[k].values;
-    values.resize(static_cast<size_t>(side_length(grid, sides[k].side)));
-    const SideRange range = owned_side_range(grid, sides[k].side);
-    std::copy(side_values[k].begin(), side_values[k].end(), values.begin() + range.begin);
+  for (size_t k = 0; k < boundary.size(); ++k) {
+    std::vector<double>& values = *boundary[k].values;
+    values.resize(layout.ids.size());
+    for (size_t n = 0; n < order.positions.size(); ++n) values[order.positions[n]] = face_values[k][n];
   }
 }
 

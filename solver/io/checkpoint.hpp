@@ -8,7 +8,6 @@
 #include <utility>
 #include <vector>
 
-#include "core/case_spec.hpp"
 #include "grid/grid.hpp"
 #include "meshes/node_coordinates.hpp"
 
@@ -17,7 +16,7 @@ namespace wallrans {
 /// What a checkpoint says about the run that wrote it. In the file: attributes of the root group
 /// ("iteration", "turbulence_model", "turbulence_variant", "cells_x", "cells_y",
 /// "grid_fingerprint", "case_hash", "program_version", "written_at") next to the format marker
-/// "format" = "wallrans-checkpoint" and "format_version" = 1; each scalar is a double attribute of
+/// "format" = "wallrans-checkpoint" and "format_version" = 2; each scalar is a double attribute of
 /// the group "/scalars", kept in the order given.
 struct CheckpointMetadata {
   int iteration = 0;
@@ -39,14 +38,18 @@ struct CellArray {
   Field* field;
 };
 
-/// A boundary array: dataset "/boundary/<name>" (attribute "side") of cells_x (bottom, top) or
-/// cells_y (left, right) doubles, indexed by the global cell position along the side. Each rank
-/// owns the entries of its own boundary faces: left/right on the ranks with x_begin == 0 /
-/// x_end == cells_x, entries [y_begin, y_end); bottom/top on the ranks with y_begin == 0 /
-/// y_end == cells_y, entries [x_begin, x_end). The vector is borrowed for the call.
-struct SideArray {
+/// The boundary faces a rank holds values for: their global ids (distinct within and across
+/// ranks, in any order) out of `n_faces` boundary faces of the whole domain (the same on every
+/// rank). Ids are the same on any rank count, so a file can be read on another one.
+struct BoundaryLayout {
+  std::vector<int> ids;
+  int n_faces = 0;
+};
+
+/// A boundary array: dataset "/boundary/<name>" of n_faces doubles in global-id order. Entry k of
+/// the vector belongs to the face with id layout.ids[k]. The vector is borrowed for the call.
+struct BoundaryArray {
   std::string name;
-  Side side;
   std::vector<double>* values;
 };
 
@@ -60,35 +63,38 @@ std::string text_hash(const std::string& text);
 
 /// Collective over grid.comm(). Writes the checkpoint <path> with parallel HDF5 (MPI-IO driver):
 /// the metadata attributes, "/fields/<name>" for each cell array and "/boundary/<name>" for each
-/// side array (collective hyperslab writes of each rank's owned block), and the node coordinates
+/// boundary array (collective writes of each rank's owned cells and faces), and the node coordinates
 /// "/grid/x", "/grid/y" ((cells_y + 1) x (cells_x + 1), each rank writing a disjoint block). The
 /// file is written as "<path>.tmp", closed, fsynced and then renamed to <path> by rank 0, so a
 /// crash never leaves a torn file under <path>; rank 0 creates the parent directory if missing.
 /// Names must be non-empty, unique within their group and made of letters, digits, '_', '-' and
-/// '.'; fields must belong to `grid` and side vectors must have the side's length. Metadata is
+/// '.'; fields must belong to `grid`, boundary vectors must have one value per id of `layout` and
+/// the ids must lie in [0, n_faces). Metadata is
 /// taken from rank 0. Returns the metadata as stored (cells_x, cells_y, grid_fingerprint and
 /// written_at filled in). Throws Error on every rank if any rank fails.
 /// `abort_after_datasets` >= 0 is a TEST-ONLY switch: once that many datasets have been written,
 /// every rank calls raise(SIGKILL), simulating a kill in the middle of writing.
 CheckpointMetadata write_checkpoint(const Grid& grid, const std::string& path,
                                     const CheckpointMetadata& metadata, const std::vector<CellArray>& cells,
-                                    const std::vector<SideArray>& sides, int abort_after_datasets = -1);
+                                    const BoundaryLayout& layout, const std::vector<BoundaryArray>& boundary,
+                                    int abort_after_datasets = -1);
 
 /// Collective over `comm`. Rank 0 reads and validates the metadata of <path> and shares it. A path
 /// that is missing, not a regular file, not HDF5, unreadable or truncated, or lacks the format
 /// marker throws InputError "<path>: expected a wallrans checkpoint (HDF5 with attribute
-/// 'format'), got ..." on every rank; another format version or a missing or mistyped metadata
-/// attribute throws InputError naming the path and the attribute.
+/// 'format'), got ..." on every rank; another format version (version 1 files say to rerun the
+/// case from the start) or a missing or mistyped metadata attribute throws InputError naming the
+/// path and the attribute.
 CheckpointMetadata read_checkpoint_metadata(MPI_Comm comm, const std::string& path);
 
 /// Collective over grid.comm(). Reads every listed array of <path> into the owned cells (then
-/// exchanges the ghosts of each field) and the owned entries of each side vector (resized to the
-/// side's length; other entries keep their values), on any rank count. Rank 0 first validates the
+/// exchanges the ghosts of each field) and the entries of each boundary vector (resized to the
+/// number of ids of `layout`), on any rank count. Rank 0 first validates the
 /// file alone: bad files as in read_checkpoint_metadata, and a missing dataset, wrong dimensions or
 /// a non-floating-point type throw InputError on every rank, naming the path, the dataset and the
 /// expected and found dimensions. Nothing is modified unless every array was read.
 void read_checkpoint(const Grid& grid, const std::string& path, const std::vector<CellArray>& cells,
-                     const std::vector<SideArray>& sides);
+                     const BoundaryLayout& layout, const std::vector<BoundaryArray>& boundary);
 
 /// Local (rank 0 calls it). Writes the XDMF (XML) description of a checkpoint written with these
 /// metadata: a 2-D curvilinear mesh ("2DSMesh", geometry X_Y) from "/grid/x" and "/grid/y" and

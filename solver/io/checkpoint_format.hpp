@@ -12,12 +12,11 @@
 namespace wallrans::checkpoint_format {
 
 inline constexpr const char* marker = "wallrans-checkpoint";
-inline constexpr int version = 1;
+inline constexpr int version = 2;
 inline constexpr const char* fields_group = "fields";
 inline constexpr const char* boundary_group = "boundary";
 inline constexpr const char* grid_group = "grid";
 inline constexpr const char* scalars_group = "scalars";
-inline constexpr const char* side_attribute = "side";
 
 /// Local. True if `name` may be a dataset or scalar name: non-empty, letters, digits, '_', '-',
 /// '.', and not "." or "..".
@@ -29,19 +28,18 @@ void write_metadata(hid_t file, const CheckpointMetadata& metadata);
 
 /// Local. Opens <path> read-only with the serial driver and checks the format marker and version.
 /// Throws InputError "<path>: expected a wallrans checkpoint (HDF5 with attribute 'format'), got
-/// ..." for a missing, non-HDF5, unreadable or truncated file or a missing or wrong marker.
+/// ..." for a missing, non-HDF5, unreadable or truncated file or a missing or wrong marker, and
+/// "<path>: attribute 'format_version': expected 2, got ..." for another version.
 Hdf5File open_for_validation(const std::string& path);
 
 /// Local. Reads and validates the metadata of an open checkpoint; InputError names `path`.
 CheckpointMetadata read_metadata(hid_t file, const std::string& path);
 
 /// Local. Checks that dataset `dataset_path` ("/fields/u") exists, holds floating-point values and
-/// has dimensions `expected` (`meaning` says what they are, e.g. "cells_y x cells_x"); if
-/// `side` is not empty, also that its attribute "side" equals it. Throws InputError naming
-/// `path`, the dataset, the expected and the found dimensions.
+/// has dimensions `expected` (`meaning` says what they are, e.g. "cells_y x cells_x"). Throws
+/// InputError naming `path`, the dataset, the expected and the found dimensions.
 void check_dataset(hid_t file, const std::string& path, const std::string& dataset_path,
-                   const std::vector<unsigned long long>& expected, const std::string& meaning,
-                   const std::string& side);
+                   const std::vector<unsigned long long>& expected, const std::string& meaning);
 
 /// Local. Byte image of the metadata for a broadcast between ranks of one program, and back.
 std::string pack(const CheckpointMetadata& metadata);

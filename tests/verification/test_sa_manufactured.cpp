@@ -134,7 +134,7 @@ struct FrozenFlow {
 // Collective (one reduction): exact velocity and gradients at the centres of the ghosted range,
 // exact face fluxes, and their largest continuity imbalance per cell.
 void fill_frozen_flow(const Grid& grid, const BoundaryMap& boundaries, FrozenFlow& flow) {
-  flow.faces = owned_boundary_faces(grid);
+  flow.faces = owned_boundary_faces(grid, boundaries.faces());
   flow.velocity = VectorField(grid);
   flow.grad_u = VectorField(grid);
   flow.grad_v = VectorField(grid);
@@ -157,7 +157,7 @@ void fill_frozen_flow(const Grid& grid, const BoundaryMap& boundaries, FrozenFlo
   flow.boundary_flux.clear();
   for (const BoundaryFace& f : flow.faces) flow.boundary_flux.push_back(face_flux(f.centre, f.area));
   // SA does not use the wall shear stress; any values of the right size.
-  flow.wall_shear.assign(collect_wall_faces(grid.nodes(), boundaries).size(), 1.0);
+  flow.wall_shear.assign(collect_wall_faces(boundaries).size(), 1.0);
 
   // Continuity of the discrete fluxes: interior faces plus the boundary faces of each cell.
   std::vector<double> imbalance(grid.n_owned(), 0.0);
@@ -224,8 +224,10 @@ GridResult solve_on(int n) {
   const BoundaryMap boundaries(spec, grid.nodes());
   FrozenFlow frozen;
   fill_frozen_flow(grid, boundaries, frozen);
+  const BoundaryConditions conditions(spec.boundaries, spec.flow.reference_pressure);
   const MeanFlowView view{grid,
                           boundaries,
+                          conditions,
                           frozen.faces,
                           frozen.boundary_flux,
                           frozen.velocity,

@@ -26,13 +26,15 @@ int main(int argc, char** argv) {
     CheckpointMetadata metadata;
     metadata.iteration = 1;
     metadata.model = "laminar";
-    write_checkpoint(grid, directory + "/checkpoint_1.h5", metadata, arrays.cells(), arrays.boundary());
+    write_checkpoint(grid, directory + "/checkpoint_1.h5", metadata, arrays.cells(), arrays.layout,
+                     arrays.boundary());
     if (rank == 0) {
       std::printf("checkpoint_1 complete\n");
       std::fflush(stdout);
     }
     metadata.iteration = 2;
-    write_checkpoint(grid, directory + "/checkpoint_2.h5", metadata, arrays.cells(), arrays.boundary(), 2);
+    write_checkpoint(grid, directory + "/checkpoint_2.h5", metadata, arrays.cells(), arrays.layout,
+                     arrays.boundary(), 2);
     if (rank == 0) std::printf("checkpoint_2 returned\n");
     return 0;
   } catch (const std::exception& e) {

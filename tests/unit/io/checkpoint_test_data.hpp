@@ -5,8 +5,10 @@
 #include <array>
 #include <cmath>
 #include <limits>
+#include <utility>
 #include <vector>
 
+#include "core/case_spec.hpp"
 #include "grid/grid.hpp"
 #include "io/checkpoint.hpp"
 #include "meshes/node_coordinates.hpp"
@@ -32,16 +34,30 @@ inline NodeCoordinates test_nodes(int cells_x = nx, int cells_y = ny) {
 inline double cell_value(int k, int i, int j) {
   return std::sin(0.37 * i + 1.11 * j + 0.5 * k) + 1e-3 * i * j + k;
 }
-inline double side_value(int k, int position) { return std::cos(0.7 * position + k) * (1.0 + k) + 0.125 * k; }
+inline double face_value(int k, int id) { return std::cos(0.7 * id + k) * (1.0 + k) + 0.125 * k; }
 
 inline const std::array<const char*, 3> cell_names = {"u", "v", "nu_t"};
-inline const std::array<Side, 4> sides = {Side::bottom, Side::top, Side::left, Side::right};
-inline const std::array<const char*, 4> side_names = {"tau_bottom", "tau_top", "q_left", "q_right"};
+inline const std::array<const char*, 2> boundary_names = {"tau_wall", "q_face"};
 
-inline int side_length(Side side) { return side == Side::bottom || side == Side::top ? nx : ny; }
+// The tests' own numbering of the boundary faces, written here from the definition independently
+// of the solver's: ids run along bottom, top, left, right, each by increasing position.
+constexpr int n_faces = 2 * (nx + ny);  // of the default test grid
+inline const std::array<Side, 4> sides_by_id = {Side::bottom, Side::top, Side::left, Side::right};
 
-/// Positions along `side` of this rank's boundary faces, [begin, end); empty if none (written
-/// here from the definition, independently of the library's own bookkeeping).
+inline int side_length(const Grid& grid, Side side) {
+  return side == Side::bottom || side == Side::top ? grid.cells_x() : grid.cells_y();
+}
+
+inline int face_id(const Grid& grid, Side side, int position) {
+  int first = 0;
+  for (const Side s : sides_by_id) {
+    if (s == side) break;
+    first += side_length(grid, s);
+  }
+  return first + position;
+}
+
+/// Positions along `side` of this rank's boundary faces, [begin, end); empty if none.
 inline std::pair<int, int> owned_along(const Grid& grid, Side side) {
   switch (side) {
     case Side::bottom:
@@ -56,29 +72,42 @@ inline std::pair<int, int> owned_along(const Grid& grid, Side side) {
   return {0, 0};
 }
 
-/// The arrays a checkpoint in these tests holds: three cell fields and one array per side.
+/// This rank's boundary faces, listed right, top, left, bottom with decreasing position within a
+/// side, so the ids are not sorted and the library must order them itself.
+inline BoundaryLayout face_layout(const Grid& grid) {
+  BoundaryLayout layout;
+  layout.n_faces = 2 * (grid.cells_x() + grid.cells_y());
+  for (const Side side : {Side::right, Side::top, Side::left, Side::bottom}) {
+    const auto [begin, end] = owned_along(grid, side);
+    for (int p = end - 1; p >= begin; --p) layout.ids.push_back(face_id(grid, side, p));
+  }
+  return layout;
+}
+
+/// The arrays a checkpoint in these tests holds: three cell fields and two boundary arrays.
 struct TestArrays {
   std::array<Field, 3> fields;
-  std::array<std::vector<double>, 4> side_values;
+  BoundaryLayout layout;
+  std::array<std::vector<double>, 2> face_values;
 
   TestArrays(const Grid& grid, double initial)
-      : fields{Field(grid, initial), Field(grid, initial), Field(grid, initial)} {
-    for (size_t k = 0; k < sides.size(); ++k) side_values[k].assign(side_length(sides[k]), initial);
+      : fields{Field(grid, initial), Field(grid, initial), Field(grid, initial)}, layout(face_layout(grid)) {
+    for (auto& values : face_values) values.assign(layout.ids.size(), initial);
   }
   std::vector<CellArray> cells() {
     std::vector<CellArray> list;
     for (size_t k = 0; k < fields.size(); ++k) list.push_back({cell_names[k], &fields[k]});
     return list;
   }
-  std::vector<SideArray> boundary() {
-    std::vector<SideArray> list;
-    for (size_t k = 0; k < sides.size(); ++k) list.push_back({side_names[k], sides[k], &side_values[k]});
+  std::vector<BoundaryArray> boundary() {
+    std::vector<BoundaryArray> list;
+    for (size_t k = 0; k < face_values.size(); ++k) list.push_back({boundary_names[k], &face_values[k]});
     return list;
   }
 };
 
 /// Collective. Arrays holding the known values on owned cells (ghosts exchanged) and on this
-/// rank's own boundary faces; every other side entry is NaN, so a writer that used it would show.
+/// rank's own boundary faces.
 inline TestArrays known_arrays(const Grid& grid) {
   TestArrays arrays(grid, 0.0);
   for (size_t k = 0; k < arrays.fields.size(); ++k) {
@@ -88,10 +117,9 @@ inline TestArrays known_arrays(const Grid& grid) {
     }
     arrays.fields[k].exchange();
   }
-  for (size_t k = 0; k < sides.size(); ++k) {
-    arrays.side_values[k].assign(side_length(sides[k]), not_set);
-    const auto [begin, end] = owned_along(grid, sides[k]);
-    for (int p = begin; p < end; ++p) arrays.side_values[k][p] = side_value(static_cast<int>(k), p);
+  for (size_t k = 0; k < arrays.face_values.size(); ++k) {
+    for (size_t n = 0; n < arrays.layout.ids.size(); ++n)
+      arrays.face_values[k][n] = face_value(static_cast<int>(k), arrays.layout.ids[n]);
   }
   return arrays;
 }

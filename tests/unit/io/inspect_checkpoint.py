@@ -2,6 +2,7 @@
 """Independent checks of a wallrans checkpoint with h5py and ElementTree, run by test_checkpoint.
 
   inspect_checkpoint.py dataset <file.h5> <dataset> <ny> <nx> <j> <i> <expected value>
+  inspect_checkpoint.py boundary <file.h5> <dataset> <n faces> <id> <expected value>
   inspect_checkpoint.py xdmf <file.xmf>
 
 Exits non-zero (with a message) if a check fails; `xdmf` prints the number of DataItems checked.
@@ -26,6 +27,16 @@ def check_dataset(path, name, ny, nx, j, i, expected):
         assert float(data[j, i]) == expected, (name, j, i, float(data[j, i]), expected)
         for coordinate in ("/grid/x", "/grid/y"):
             assert f[coordinate].shape == (ny + 1, nx + 1), (coordinate, f[coordinate].shape)
+
+
+def check_boundary(path, name, n_faces, face_id, expected):
+    with h5py.File(path, "r") as f:
+        assert text(f.attrs["format"]) == "wallrans-checkpoint", f.attrs["format"]
+        assert int(f.attrs["format_version"]) == 2, f.attrs["format_version"]
+        data = f[name]
+        assert data.shape == (n_faces,), (name, data.shape)
+        assert data.dtype.kind == "f" and data.dtype.itemsize == 8, data.dtype
+        assert float(data[face_id]) == expected, (name, face_id, float(data[face_id]), expected)
 
 
 def check_xdmf(path):
@@ -54,6 +65,10 @@ if __name__ == "__main__":
         path, name = sys.argv[2], sys.argv[3]
         ny, nx, j, i = (int(a) for a in sys.argv[4:8])
         check_dataset(path, name, ny, nx, j, i, float(sys.argv[8]))
+    elif sys.argv[1] == "boundary":
+        path, name = sys.argv[2], sys.argv[3]
+        n_faces, face_id = (int(a) for a in sys.argv[4:6])
+        check_boundary(path, name, n_faces, face_id, float(sys.argv[6]))
     elif sys.argv[1] == "xdmf":
         check_xdmf(sys.argv[2])
     else:

@@ -40,7 +40,7 @@ boundaries:
   - side: right
     kind: outflow
     pressure: 0.5
-  - {side: top, kind: free, velocity: [2.5, 0.1]}
+  - {side: top, kind: opening, velocity: [2.5, 0.1]}
 turbulence: {model: laminar}
 iterations:
   coupling: simple
@@ -194,13 +194,13 @@ TEST(CaseLoader, FullCaseSetsEveryField) {
   EXPECT_EQ(outflow.kind, BoundaryKind::outflow);
   EXPECT_EQ(outflow.pressure, 0.5);
   EXPECT_EQ(outflow.line, 22);
-  const auto& free = spec.boundaries[4];
-  EXPECT_EQ(free.side, Side::top);
-  EXPECT_EQ(free.kind, BoundaryKind::free);
-  EXPECT_EQ(free.velocity.x, 2.5);
-  EXPECT_EQ(free.velocity.y, 0.1);
-  EXPECT_EQ(free.pressure, 1.5) << "a free boundary without pressure takes flow.reference_pressure";
-  EXPECT_EQ(free.line, 25);
+  const auto& opening = spec.boundaries[4];
+  EXPECT_EQ(opening.side, Side::top);
+  EXPECT_EQ(opening.kind, BoundaryKind::opening);
+  EXPECT_EQ(opening.velocity.x, 2.5);
+  EXPECT_EQ(opening.velocity.y, 0.1);
+  EXPECT_EQ(opening.pressure, 1.5) << "an opening without pressure takes flow.reference_pressure";
+  EXPECT_EQ(opening.line, 25);
 
   EXPECT_EQ(spec.periodic.axis, PeriodicAxis::none);
   EXPECT_EQ(spec.turbulence.model, "laminar");
@@ -286,6 +286,15 @@ TEST(CaseLoader, LoadsFileAndNamesItInMessages) {
   EXPECT_EQ(message.rfind(path.string() + ":3: key 'boundaries[0].kind': expected one of wall,", 0), 0u)
       << message;
   std::filesystem::remove(path);
+}
+
+TEST(CaseLoader, TheOldKindNameFreeIsAnErrorThatNamesOpening) {
+  const std::string text =
+      "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\nboundaries:\n"
+      "  - {side: left, kind: wall}\n  - {side: top, kind: free, velocity: [1, 0]}\n";
+  EXPECT_EQ(input_error_of([&] { parse_case_text(text, "old.yaml"); }),
+            "old.yaml:5: key 'boundaries[1].kind': expected one of wall, inflow, outflow, slip, opening, got "
+            "'free' (renamed: use 'opening')");
 }
 
 TEST(CaseLoader, UnreadableFileIsAnInputError) {
@@ -399,7 +408,11 @@ INSTANTIATE_TEST_SUITE_P(
         BadCase{"unknown_boundary_kind",
                 "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\nboundaries:\n"
                 "  - {side: top, kind: wall}\n  - {side: left, kind: wal}\n",
-                5, "boundaries[1].kind", "one of wall, inflow, outflow, slip, free, got wal"},
+                5, "boundaries[1].kind", "one of wall, inflow, outflow, slip, opening, got wal"},
+        BadCase{"renamed_boundary_kind",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\nboundaries:\n"
+                "  - {side: left, kind: wall}\n  - {side: top, kind: free, velocity: [1, 0]}\n",
+                5, "boundaries[1].kind", "got 'free' (renamed: use 'opening')"},
         BadCase{"unknown_side",
                 "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\nboundaries:\n"
                 "  - {side: up, kind: wall}\n",

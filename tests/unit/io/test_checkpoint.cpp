@@ -94,8 +94,8 @@ CheckpointMetadata sample_metadata() {
 }
 
 // Checks fields read into arrays that started as NaN: owned cells and the ghosts a star-stencil
-// exchange fills (periodic ghosts wrap) equal the known values bit for bit, and the owned side
-// entries too, while side entries of other ranks keep their NaN.
+// exchange fills (periodic ghosts wrap) equal the known values bit for bit, and so do the values
+// of this rank's boundary faces.
 void expect_known_values(const Grid& grid, const TestArrays& arrays) {
   int n_wrong = 0;
   auto check = [&](double found, double expected, const std::string& where) {
@@ -114,16 +114,12 @@ void expect_known_values(const Grid& grid, const TestArrays& arrays) {
       }
     }
   }
-  for (size_t k = 0; k < sides.size(); ++k) {
-    ASSERT_EQ(arrays.side_values[k].size(), static_cast<size_t>(side_length(sides[k])));
-    const auto [begin, end] = owned_along(grid, sides[k]);
-    for (int p = 0; p < side_length(sides[k]); ++p) {
-      const std::string where = std::string(side_names[k]) + "[" + std::to_string(p) + "]";
-      if (p >= begin && p < end) {
-        check(arrays.side_values[k][p], side_value(static_cast<int>(k), p), where);
-      } else if (!std::isnan(arrays.side_values[k][p])) {
-        ADD_FAILURE() << where << ": entry of another rank's faces was changed";
-      }
+  for (size_t k = 0; k < arrays.face_values.size(); ++k) {
+    ASSERT_EQ(arrays.face_values[k].size(), arrays.layout.ids.size());
+    for (size_t n = 0; n < arrays.layout.ids.size(); ++n) {
+      const int id = arrays.layout.ids[n];
+      check(arrays.face_values[k][n], face_value(static_cast<int>(k), id),
+            std::string(boundary_names[k]) + " of face " + std::to_string(id));
     }
   }
   EXPECT_EQ(n_wrong, 0);
@@ -132,13 +128,13 @@ void expect_known_values(const Grid& grid, const TestArrays& arrays) {
 // Collective: writes the known arrays of `grid` to `path`.
 CheckpointMetadata write_known(const Grid& grid, const std::string& path) {
   TestArrays arrays = known_arrays(grid);
-  return write_checkpoint(grid, path, sample_metadata(), arrays.cells(), arrays.boundary());
+  return write_checkpoint(grid, path, sample_metadata(), arrays.cells(), arrays.layout, arrays.boundary());
 }
 
 // Collective: reads `path` into NaN arrays on `grid` and checks them against the known values.
 void read_and_expect_known(const Grid& grid, const std::string& path) {
   TestArrays arrays(grid, not_set);
-  read_checkpoint(grid, path, arrays.cells(), arrays.boundary());
+  read_checkpoint(grid, path, arrays.cells(), arrays.layout, arrays.boundary());
   expect_known_values(grid, arrays);
 }
 
@@ -217,7 +213,7 @@ std::string full_precision(double value) {
 
 class CheckpointRoundTrip : public ::testing::TestWithParam<bool> {};
 
-TEST_P(CheckpointRoundTrip, BitExactOnOwnedCellsGhostsAndSides) {
+TEST_P(CheckpointRoundTrip, BitExactOnOwnedCellsGhostsAndBoundaryFaces) {
   const ScratchDirectory scratch;
   const Grid grid(MPI_COMM_WORLD, test_nodes(), GetParam());
   const std::string path = scratch.file("nested/run/state_1234.h5");  // the writer creates the folders
@@ -349,7 +345,7 @@ TEST(CheckpointBadFiles, EachGivesOneLineInputErrorNamingFileAndExpectation) {
     return [path] { read_checkpoint_metadata(MPI_COMM_WORLD, path); };
   };
   auto read_arrays = [&](const std::string& path) {
-    return [&, path] { read_checkpoint(grid, path, arrays.cells(), arrays.boundary()); };
+    return [&, path] { read_checkpoint(grid, path, arrays.cells(), arrays.layout, arrays.boundary()); };
   };
 
   expect_contains(input_error(text, read_metadata(text)), not_checkpoint + "a file that is not HDF5");
@@ -376,16 +372,17 @@ TEST(CheckpointBadFiles, EachGivesOneLineInputErrorNamingFileAndExpectation) {
   // A checkpoint of another grid size: expected and found dimensions.
   const Grid wider(MPI_COMM_WORLD, test_nodes(12, ny), false);
   TestArrays wide_arrays(wider, not_set);
-  const std::string sizes =
-      input_error(valid, [&] { read_checkpoint(wider, valid, wide_arrays.cells(), wide_arrays.boundary()); });
+  const std::string sizes = input_error(valid, [&] {
+    read_checkpoint(wider, valid, wide_arrays.cells(), wide_arrays.layout, wide_arrays.boundary());
+  });
   expect_contains(sizes, "dataset '/fields/u'");
   expect_contains(sizes, "expected 7 x 12 (cells_y x cells_x) floating-point values, got 7 x 10");
-  const std::string side_sizes = input_error(valid, [&] {
+  const std::string face_sizes = input_error(valid, [&] {
     std::vector<double> values;
-    read_checkpoint(wider, valid, {}, {{"tau_bottom", Side::bottom, &values}});
+    read_checkpoint(wider, valid, {}, {{}, n_faces + 4}, {{"tau_wall", &values}});
   });
-  expect_contains(side_sizes,
-                  "dataset '/boundary/tau_bottom': expected 12 (cells_x) floating-point values, got 10");
+  expect_contains(face_sizes,
+                  "dataset '/boundary/tau_wall': expected 38 (boundary faces) floating-point values, got 34");
 
   // Nothing was modified by the failed reads.
   for (const Field& field : arrays.fields) {
@@ -393,30 +390,69 @@ TEST(CheckpointBadFiles, EachGivesOneLineInputErrorNamingFileAndExpectation) {
   }
 }
 
+TEST(CheckpointBadFiles, AVersionOneFileNamesBothVersionsAndSaysToRerunFromTheStart) {
+  const ScratchDirectory scratch;
+  const Grid grid(MPI_COMM_WORLD, test_nodes(), false);
+  const std::string old = scratch.file("version_1.h5");
+  write_known(grid, old);
+  if (world_rank() == 0) {
+    // Readers check the version before any dataset, so the marker alone makes a version-1 file.
+    const Hdf5File file(H5Fopen(old.c_str(), H5F_ACC_RDWR, H5P_DEFAULT));
+    ASSERT_TRUE(file);
+    const Hdf5Attribute version(H5Aopen(file.get(), "format_version", H5P_DEFAULT));
+    ASSERT_TRUE(version);
+    const int one = 1;
+    ASSERT_GE(H5Awrite(version.get(), H5T_NATIVE_INT, &one), 0);
+  }
+  MPI_Barrier(MPI_COMM_WORLD);
+  const std::string message = input_error(old, [&] { read_checkpoint_metadata(MPI_COMM_WORLD, old); });
+  expect_contains(message, old + ": attribute 'format_version': expected 2, got 1");
+  expect_contains(message, "rerun the case from the start");
+  TestArrays arrays(grid, not_set);
+  expect_contains(
+      input_error(old, [&] { read_checkpoint(grid, old, arrays.cells(), arrays.layout, arrays.boundary()); }),
+      "expected 2, got 1");
+  for (const double value : arrays.fields[0].data()) ASSERT_TRUE(std::isnan(value));
+}
+
 TEST(CheckpointAgreement, ABadRequestOnOneRankFailsEveryRankAndWritesNothing) {
   const ScratchDirectory scratch;
   const Grid grid(MPI_COMM_WORLD, test_nodes(), false);
   TestArrays arrays = known_arrays(grid);
-  if (world_rank() == world_size() - 1) arrays.side_values[0].resize(3);  // only the last rank is wrong
+  if (world_rank() == world_size() - 1) arrays.face_values[0].resize(3);  // only the last rank is wrong
   const std::string path = scratch.file("never.h5");
   std::string message;
   try {
-    write_checkpoint(grid, path, sample_metadata(), arrays.cells(), arrays.boundary());
+    write_checkpoint(grid, path, sample_metadata(), arrays.cells(), arrays.layout, arrays.boundary());
   } catch (const Error& e) {
     message = e.what();
   }
-  expect_contains(message, "side array 'tau_bottom' has 3 values, expected 10");
+  expect_contains(message, "boundary array 'tau_wall' has 3 values, expected ");
+  expect_contains(message, " (one per boundary face id)");
   MPI_Barrier(MPI_COMM_WORLD);
   EXPECT_FALSE(fs::exists(path));
   EXPECT_FALSE(fs::exists(path + ".tmp"));
+
+  // A face id outside the domain's faces on the last rank only.
+  TestArrays outside = known_arrays(grid);
+  if (world_rank() == world_size() - 1) outside.layout.ids.back() = n_faces;
+  message.clear();
+  try {
+    write_checkpoint(grid, path, sample_metadata(), outside.cells(), outside.layout, outside.boundary());
+  } catch (const Error& e) {
+    message = e.what();
+  }
+  expect_contains(message, "boundary face id 34 is repeated or outside [0, 34)");
+  EXPECT_FALSE(fs::exists(path));
 
   // Only rank 0 sees that the parent "folder" is a regular file; every rank fails.
   const std::string blocker = scratch.file("blocker");
   if (world_rank() == 0) std::ofstream(blocker) << "not a folder";
   MPI_Barrier(MPI_COMM_WORLD);
   TestArrays good = known_arrays(grid);
-  EXPECT_THROW(
-      write_checkpoint(grid, blocker + "/state.h5", sample_metadata(), good.cells(), good.boundary()), Error);
+  EXPECT_THROW(write_checkpoint(grid, blocker + "/state.h5", sample_metadata(), good.cells(), good.layout,
+                                good.boundary()),
+               Error);
 
   // A read request that is wrong on the last rank only: every rank fails and nothing changes.
   const std::string valid = scratch.file("valid.h5");
@@ -424,7 +460,7 @@ TEST(CheckpointAgreement, ABadRequestOnOneRankFailsEveryRankAndWritesNothing) {
   TestArrays target(grid, not_set);
   std::vector<CellArray> request = target.cells();
   if (world_rank() == world_size() - 1) request[1].field = nullptr;
-  EXPECT_THROW(read_checkpoint(grid, valid, request, target.boundary()), Error);
+  EXPECT_THROW(read_checkpoint(grid, valid, request, target.layout, target.boundary()), Error);
   for (const double value : target.fields[0].data()) ASSERT_TRUE(std::isnan(value));
 }
 
@@ -459,12 +495,13 @@ TEST(CheckpointTools, HdfToolsH5pyAndXdmfReadTheFiles) {
 
     ASSERT_EQ(run(quoted(WALLRANS_H5LS) + " -r " + quoted(h5), out, err), 0) << read_text(err);
     const std::string listing = read_text(out);
-    for (const std::string name : {"/fields/u ", "/fields/v ", "/fields/nu_t ", "/boundary/tau_bottom ",
-                                   "/boundary/q_right ", "/grid/x ", "/grid/y ", "/scalars "}) {
+    for (const std::string name : {"/fields/u ", "/fields/v ", "/fields/nu_t ", "/boundary/tau_wall ",
+                                   "/boundary/q_face ", "/grid/x ", "/grid/y ", "/scalars "}) {
       expect_contains(listing, name);
     }
     expect_contains(listing, "Dataset {7, 10}");
     expect_contains(listing, "Dataset {8, 11}");
+    expect_contains(listing, "Dataset {34}");
 
     ASSERT_EQ(run(quoted(WALLRANS_H5DUMP) + " -A " + quoted(h5), out, err), 0) << read_text(err);
     const std::string dump = read_text(out);
@@ -479,6 +516,13 @@ TEST(CheckpointTools, HdfToolsH5pyAndXdmfReadTheFiles) {
       const std::string check = python + " dataset " + quoted(h5) + " /fields/" + cell_names[k] + " " +
                                 std::to_string(ny) + " " + std::to_string(nx) + " " + std::to_string(j) +
                                 " " + std::to_string(i) + " " + full_precision(cell_value(k, i, j));
+      EXPECT_EQ(run(check, out, err), 0) << check << "\n" << read_text(err);
+    }
+    // Boundary values sit at their global id, whatever order a rank listed its faces in.
+    for (const auto& [k, id] : {std::pair{0, 0}, std::pair{1, 17}, std::pair{0, n_faces - 1}}) {
+      const std::string check = python + " boundary " + quoted(h5) + " /boundary/" + boundary_names[k] + " " +
+                                std::to_string(n_faces) + " " + std::to_string(id) + " " +
+                                full_precision(face_value(k, id));
       EXPECT_EQ(run(check, out, err), 0) << check << "\n" << read_text(err);
     }
     const std::string wrong = python + " dataset " + quoted(h5) + " /fields/u " + std::to_string(ny) + " " +

@@ -95,7 +95,7 @@ TEST(WallFaces, AllSidesInGlobalOrder) {
       case_with({segment(Side::left, BoundaryKind::wall), segment(Side::right, BoundaryKind::wall),
                  segment(Side::bottom, BoundaryKind::wall), segment(Side::top, BoundaryKind::wall)}),
       nodes);
-  const auto walls = collect_wall_faces(nodes, map);
+  const auto walls = collect_wall_faces(map);
   const Side sides[] = {Side::left,   Side::left,   Side::right, Side::right, Side::bottom,
                         Side::bottom, Side::bottom, Side::top,   Side::top,   Side::top};
   const int index[] = {0, 1, 0, 1, 0, 1, 2, 0, 1, 2};
@@ -124,7 +124,7 @@ TEST(WallDistance, PlaneChannelIsDistanceToNearerWallIncludingPeriodicGhosts) {
   const BoundaryMap map(
       case_with({segment(Side::bottom, BoundaryKind::wall), segment(Side::top, BoundaryKind::wall)}, true),
       grid.nodes());
-  const auto walls = collect_wall_faces(grid.nodes(), map);
+  const auto walls = collect_wall_faces(map);
   ASSERT_EQ(walls.size(), 32u);
   const auto result = compute_wall_distance(grid, walls);
   const double height = spec.height, length = spec.length;
@@ -152,7 +152,7 @@ TEST(WallDistance, CurvedWallEqualsAllPairsAndCircleWithinSagitta) {
       case_with({segment(Side::bottom, BoundaryKind::wall), segment(Side::top, BoundaryKind::slip),
                  segment(Side::left, BoundaryKind::slip), segment(Side::right, BoundaryKind::slip)}),
       grid.nodes());
-  const auto walls = collect_wall_faces(grid.nodes(), map);
+  const auto walls = collect_wall_faces(map);
   ASSERT_EQ(walls.size(), static_cast<size_t>(n_theta));
   const auto result = compute_wall_distance(grid, walls);
   // The chords of the inner arc lie between radius R1 cos(dtheta/2) and R1, so for a point at
@@ -183,7 +183,7 @@ TEST(WallDistance, TiesAtSharedWallNodesGoToTheSmallestIdLikeAllPairs) {
       case_with({segment(Side::bottom, BoundaryKind::wall), segment(Side::top, BoundaryKind::slip),
                  segment(Side::left, BoundaryKind::slip), segment(Side::right, BoundaryKind::slip)}),
       grid.nodes());
-  const auto walls = collect_wall_faces(grid.nodes(), map);
+  const auto walls = collect_wall_faces(map);
   const auto result = compute_wall_distance(grid, walls);
   int n_ties = 0;
   for (int j = grid.gy_begin(); j < grid.gy_end(); ++j) {
@@ -211,7 +211,7 @@ TEST(WallDistance, CellsAboveSlipGapSeeTheWallEnds) {
                  segment(Side::left, BoundaryKind::slip), segment(Side::right, BoundaryKind::slip),
                  segment(Side::top, BoundaryKind::slip)}),
       grid.nodes());
-  const auto walls = collect_wall_faces(grid.nodes(), map);
+  const auto walls = collect_wall_faces(map);
   ASSERT_EQ(walls.size(), 12u);  // bottom faces 0..5 (ids 0..5) and 14..19 (ids 6..11)
   EXPECT_EQ(walls[5].index, 5);
   EXPECT_EQ(walls[6].index, 14);
@@ -252,7 +252,7 @@ TEST(WallDistance, LargePlateGridRunsAndMatchesAllPairsOnASample) {
                  segment(Side::bottom, BoundaryKind::wall, 0.0, std::nullopt), inflow,
                  segment(Side::right, BoundaryKind::outflow), segment(Side::top, BoundaryKind::slip)}),
       grid.nodes());
-  const auto walls = collect_wall_faces(grid.nodes(), map);
+  const auto walls = collect_wall_faces(map);
   ASSERT_EQ(walls.size(), 360u);
   const auto result = compute_wall_distance(grid, walls);
   // Analytic for every cell: the plate is the line y = 0 from its leading edge (0, 0) on, so ahead
@@ -284,7 +284,7 @@ TEST(WallDistance, NoWallGivesInfinityAndNoId) {
       case_with({segment(Side::left, BoundaryKind::slip), segment(Side::right, BoundaryKind::slip),
                  segment(Side::bottom, BoundaryKind::slip), segment(Side::top, BoundaryKind::slip)}),
       grid.nodes());
-  const auto walls = collect_wall_faces(grid.nodes(), map);
+  const auto walls = collect_wall_faces(map);
   EXPECT_TRUE(walls.empty());
   const auto result = compute_wall_distance(grid, walls);
   ASSERT_EQ(result.nearest.size(), grid.n_ghosted());
