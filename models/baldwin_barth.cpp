@@ -56,6 +56,7 @@ void BaldwinBarth::update(const MeanFlowView& flow) {
   eq.wall_gamma = nu_;
   eq.freestream_value = spec_.turbulence.freestream_viscosity_ratio * nu_;
   eq.relax = spec_.turbulence.relax;
+  eq.relax_diffusive_part = spec_.turbulence.relax_diffusive_part;
   residual_ = transport_.solve(flow, eq);
   for (double& v : r_.data()) v = std::max(v, 0.0);
   for (int j = grid_.gy_begin(); j < grid_.gy_end(); ++j)

@@ -59,6 +59,7 @@ void KEquation::update(const MeanFlowView& flow) {
   eq.wall_gamma = nu_;
   eq.freestream_value = freestream_k();
   eq.relax = spec_.turbulence.relax;
+  eq.relax_diffusive_part = spec_.turbulence.relax_diffusive_part;
   residual_ = transport_.solve(flow, eq);
   for (double& v : k_.data()) v = std::max(v, 0.0);
   for (int j = grid_.gy_begin(); j < grid_.gy_end(); ++j) {

@@ -69,7 +69,7 @@ double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
   // Convection and diffusion through one interior face; returns the implicit coefficients and
   // the explicit part of the balance of the left cell.
   struct Face {
-    double a_ll, a_lr, a_rr, a_rl, explicit_left;
+    double diffusion, a_ll, a_lr, a_rr, a_rl, explicit_left;
   };
   auto face_terms = [&](int il, int jl, int ir, int jr, const FaceGeometry& geom, double flux) {
     const Vec2 xl = grid_.centre(il, jl), xr = grid_.centre(ir, jr);
@@ -82,8 +82,12 @@ double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
     const double phi_upwind = flux >= 0.0 ? phi(il, jl) : phi(ir, jr);
     const double explicit_left =
         gamma_f * dot(g.cross, g.wl * gl + (1.0 - g.wl) * gr) - flux * (phi_f - phi_upwind);
-    return Face{diffusion + std::max(flux, 0.0), diffusion + std::max(-flux, 0.0),
-                diffusion + std::max(-flux, 0.0), diffusion + std::max(flux, 0.0), explicit_left};
+    return Face{diffusion,
+                diffusion + std::max(flux, 0.0),
+                diffusion + std::max(-flux, 0.0),
+                diffusion + std::max(-flux, 0.0),
+                diffusion + std::max(flux, 0.0),
+                explicit_left};
   };
   for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
     for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
@@ -94,6 +98,7 @@ double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
       int n = 1;
       cols[0] = row;
       double diag = -eq.source_p->operator()(i, j) * volume;
+      double diffusive = 0.0;  // the diffusion share of diag
       double rhs = eq.source_u->operator()(i, j) * volume;
       double off = 0.0;
       auto neighbour = [&](int in, int jn, double coef) {
@@ -104,24 +109,28 @@ double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
       if (grid_.has_east(i)) {
         const Face t = face_terms(i, j, i + 1, j, grid_.east_face(i, j), flow.flux_east(i, j));
         diag += t.a_ll;
+        diffusive += t.diffusion;
         neighbour(i + 1, j, t.a_lr);
         rhs += t.explicit_left;
       }
       if (grid_.has_west(i)) {
         const Face t = face_terms(i - 1, j, i, j, grid_.east_face(i - 1, j), flow.flux_east(i - 1, j));
         diag += t.a_rr;
+        diffusive += t.diffusion;
         neighbour(i - 1, j, t.a_rl);
         rhs -= t.explicit_left;
       }
       if (grid_.has_north(j)) {
         const Face t = face_terms(i, j, i, j + 1, grid_.north_face(i, j), flow.flux_north(i, j));
         diag += t.a_ll;
+        diffusive += t.diffusion;
         neighbour(i, j + 1, t.a_lr);
         rhs += t.explicit_left;
       }
       if (grid_.has_south(j)) {
         const Face t = face_terms(i, j - 1, i, j, grid_.north_face(i, j - 1), flow.flux_north(i, j - 1));
         diag += t.a_rr;
+        diffusive += t.diffusion;
         neighbour(i, j - 1, t.a_rl);
         rhs -= t.explicit_left;
       }
@@ -153,6 +162,7 @@ double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
           const double s1 = dot(f.centre - grid_.centre(i, j), (1.0 / area) * f.area);
           const double c = (bc.is_wall() && eq.wall_gamma >= 0.0 ? eq.wall_gamma : gamma(i, j)) * area / s1;
           diag += c;
+          diffusive += c;
           rhs += c * value;
           // Non-orthogonal correction (deferred): the cell value moved onto the face normal by its
           // gradient, as for the momentum equations; without it the boundary flux misses the
@@ -164,10 +174,12 @@ double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
         }
       }
       residual += std::abs(rhs + off - diag * phi(i, j));
-      // Under-relaxation (Patankar 1980, eq. 4.38).
-      const double diag_relaxed = diag / eq.relax;
-      vals[0] = diag_relaxed;
-      b[j][i] = rhs + (diag_relaxed - diag) * phi(i, j);
+      // Under-relaxation (Patankar 1980, eq. 4.38) acting on all of a_P but the implicit share
+      // 1 - s of the diffusion, as in the momentum equations (DEVELOPERS.md, Outer iteration).
+      const double relaxation =
+          (1.0 - eq.relax) / eq.relax * (diag - (1.0 - eq.relax_diffusive_part) * diffusive);
+      vals[0] = diag + relaxation;
+      b[j][i] = rhs + relaxation * phi(i, j);
       check_petsc(MatSetValuesStencil(a, 1, &row, n, cols, vals, INSERT_VALUES));
     }
   }

@@ -22,6 +22,7 @@ struct ScalarEquation {
   double wall_gamma = -1.0;         ///< diffusion coefficient at walls (< 0: use the cell value)
   double freestream_value = 0.0;    ///< value carried in through inflows and openings
   double relax = 0.8;
+  double relax_diffusive_part = 1.0;  ///< share of the diffusive coefficients that `relax` acts on
   /// Optional: value at wall/inflow faces as a function of the face centre (manufactured
   /// solutions); replaces wall_value and freestream_value there.
   std::function<double(Vec2)> boundary_value;

@@ -24,6 +24,7 @@ struct SaConstants {
 struct SaSource {
   double production;
   double destruction_coefficient;
+  double net_slope;  ///< d(production - destruction)/d nu_tilde on the current branch of the limiters
   double gradient_term;
   double nut;          ///< eddy viscosity nu_tilde f_v1 (0 where nu_tilde < 0)
   double diffusivity;  ///< (nu + nu_tilde f_n) / sigma
@@ -55,6 +56,7 @@ class SpalartAllmaras final : public WallBoundedModel {
   void set_boundary_value(std::function<double(Vec2)> value) { boundary_value_ = std::move(value); }
 
  private:
+  double eddy_viscosity_of(double nu_tilde) const;
   ScalarTransport transport_;
   Field nu_tilde_, gamma_, su_, sp_;
   double residual_ = 0.0;

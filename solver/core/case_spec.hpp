@@ -73,6 +73,11 @@ struct IterationSpec {
   double residual_drop = 1e-6;  ///< stop when every normalised residual is below this
   double relax_velocity = 0.8;  ///< in (0, 1)
   double relax_pressure = 1.0;  ///< in (0, 1]; SIMPLE typically 0.3
+  /// Share of the diffusive part of a_P that the velocity relaxation acts on, in (0, 1]: 1 is
+  /// classic under-relaxation; smaller values keep wall-normal diffusion implicit, so the outer
+  /// iteration count does not grow with wall-normal refinement.
+  double relax_diffusive_part = 0.1;
+  int pressure_setup_every = 10;  ///< rebuild the pressure preconditioner every N outer iterations, >= 1
   ConvectionScheme convection = ConvectionScheme::bounded_linear_upwind;
   int report_every = 50;      ///< terminal residual line every N iterations (0 = never)
   std::string petsc_options;  ///< extra PETSc options, e.g. "-pressure_ksp_rtol 0.01"
@@ -88,6 +93,7 @@ struct TurbulenceSpec {
   double freestream_intensity = 0.01;       ///< k_equation: k = 1.5 (I U_ref)^2 at inflow and free stream
   std::optional<double> outer_length;       ///< mixing_length: delta in l <= 0.09 delta [m] (required there)
   double relax = 0.8;                       ///< under-relaxation of the model equation, in (0, 1]
+  double relax_diffusive_part = 0.1;        ///< share of the diffusive coefficients relaxed, in (0, 1]
   ConvectionScheme convection = ConvectionScheme::bounded_linear_upwind;
   int line = 0;  ///< case-file line of the turbulence section (messages)
 };

@@ -24,9 +24,9 @@ struct ResidualNorms {
 
 struct IterationStatus {
   int iteration = 0;
-  ResidualNorms absolute;  ///< L1 norms: momentum imbalance [m^3/s^2], mass imbalance [m^2/s]
-  ResidualNorms
-      normalised;  ///< momentum: / largest momentum residual of iterations 1-5; continuity: / (U_ref L_ref)
+  ResidualNorms absolute;    ///< L1 norms: momentum imbalance [m^3/s^2], mass imbalance [m^2/s]
+  ResidualNorms normalised;  ///< momentum: / largest of iterations 1-5; continuity: mean over cells of
+                             ///< |imbalance| / (U_ref half perimeter)
   std::vector<ModelResidual> model_absolute;  ///< turbulence-model residuals (L1)
   std::vector<double> model_normalised;       ///< / largest of iterations 1-5
   int momentum_iterations = 0;
@@ -109,7 +109,9 @@ class FlowSolver {
   void assemble_and_solve_pressure_correction(IterationStatus& status);
   void correct();
   FaceTerms interior_face_terms(int il, int jl, int ir, int jr, const FaceGeometry& face, double flux) const;
-  double pressure_coefficient(int il, int jl, int ir, int jr, const FaceGeometry& face) const;
+  double pressure_coefficient(const Field& d_corr, int il, int jl, int ir, int jr,
+                              const FaceGeometry& face) const;
+  void assemble_pressure_matrix(const Field& d_corr, Mat a) const;
   double interior_flux(int il, int jl, int ir, int jr, const FaceGeometry& face, double flux_old) const;
   double normal_derivative(const Field& phi, const VectorField& grad, double phi_b,
                            const BoundaryFace& face) const;
@@ -135,16 +137,19 @@ class FlowSolver {
   std::vector<int> wall_id_;        // global wall-face id of each owned boundary face, -1 if not a wall
   std::vector<double> wall_shear_;  // |tau_w| per global wall face
   int iteration_ = 0;
+  double continuity_per_cell_ = 0.0;  // mean relative mass imbalance of the last iteration
 
   VectorField vel_, vel_old_, grad_u_, grad_v_, grad_p_, grad_pc_;
   // Interior-face fluxes: flux_e_(i, j) through the face between (i, j) and (i + 1, j),
   // flux_n_(i, j) between (i, j) and (i, j + 1); boundary faces are in bflux_.
-  Field p_, pc_, nu_eff_, d_rc_, d_corr_, flux_e_, flux_n_, flux_e_old_, flux_n_old_;
+  Field p_, pc_, nu_eff_, d_rc_, d_corr_, memory_, flux_e_, flux_n_, flux_e_old_, flux_n_old_;
   std::vector<double> u_b_, v_b_, p_b_, zero_b_;  // boundary values (bfaces_ order)
   std::unique_ptr<LeastSquaresGradient> lsq_all_, lsq_pressure_;
   std::vector<double> rhs_u_, rhs_v_, diag_;  // owned order
 
-  OwnedMat a_mom_, a_pc_;
+  OwnedMat a_mom_, a_pc_, a_pc_setup_;  // a_pc_setup_: the matrix the pressure preconditioner was built from
+  Field d_setup_;                       // SIMPLEC d of the last preconditioner set-up (restart state)
+  bool preconditioner_ready_ = false;
   OwnedVec b_vec_, x_vec_;
   OwnedKsp ksp_mom_, ksp_pc_;
   OwnedNullSpace null_space_;

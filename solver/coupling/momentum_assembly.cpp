@@ -79,6 +79,7 @@ void FlowSolver::assemble_momentum(ResidualNorms& residual) {
   Mat a = a_mom_.get();
   check_petsc(MatZeroEntries(a));
   const double alpha = spec_.iterations.relax_velocity;
+  const double share = spec_.iterations.relax_diffusive_part;
   const double nu = spec_.flow.kinematic_viscosity;
   Vec2 body = spec_.flow.body_force;
   if (spec_.periodic.axis == PeriodicAxis::x) body.x -= spec_.periodic.mean_pressure_gradient;
@@ -94,7 +95,7 @@ void FlowSolver::assemble_momentum(ResidualNorms& residual) {
       double vals[5];
       int n = 1;
       cols[0] = row;
-      double diag = 0.0, sum_nb = 0.0;
+      double diag = 0.0, sum_nb = 0.0, diffusive = 0.0;  // diffusive: the diffusion share of diag
       const Vec2 gp = grad_p_(i, j);
       double bu = volume * (body.x - gp.x), bv = volume * (body.y - gp.y);
       if (source_) {
@@ -113,6 +114,7 @@ void FlowSolver::assemble_momentum(ResidualNorms& residual) {
       auto as_left = [&](int ir, int jr, const FaceGeometry& face, double flux) {
         const FaceTerms t = interior_face_terms(i, j, ir, jr, face, flux);
         diag += t.diffusion + std::max(flux, 0.0);
+        diffusive += t.diffusion;
         neighbour(ir, jr, t.diffusion + std::max(-flux, 0.0));
         bu += t.explicit_u;
         bv += t.explicit_v;
@@ -120,6 +122,7 @@ void FlowSolver::assemble_momentum(ResidualNorms& residual) {
       auto as_right = [&](int il, int jl, const FaceGeometry& face, double flux) {
         const FaceTerms t = interior_face_terms(il, jl, i, j, face, flux);
         diag += t.diffusion + std::max(-flux, 0.0);
+        diffusive += t.diffusion;
         neighbour(il, jl, t.diffusion + std::max(flux, 0.0));
         bu -= t.explicit_u;
         bv -= t.explicit_v;
@@ -144,25 +147,34 @@ void FlowSolver::assemble_momentum(ResidualNorms& residual) {
             dot(f.centre - xp, (1.0 / area) * f.area),
             nu,
             nu_eff_(i, j)};
-        MomentumRow row{diag, bu, bv};
+        MomentumRow row{diag, bu, bv, diffusive};
         condition(f).add_momentum(in, row);
         diag = row.diag;
         bu = row.rhs_u;
         bv = row.rhs_v;
+        diffusive = row.diffusive;
       }
       res_u += std::abs(bu + off_u - diag * vel_.x(i, j));
       res_v += std::abs(bv + off_v - diag * vel_.y(i, j));
-      // Under-relaxation (Patankar 1980, eq. 4.38): a_P/alpha, source + (1-alpha)/alpha a_P phi_old.
-      const double diag_relaxed = diag / alpha;
-      rhs_u_[o] = bu + (diag_relaxed - diag) * vel_.x(i, j);
-      rhs_v_[o] = bv + (diag_relaxed - diag) * vel_.y(i, j);
+      // Under-relaxation (Patankar 1980, eq. 4.38) as a local pseudo-time term r (phi - phi_old),
+      // r = (1 - alpha)/alpha (a_P - (1 - s) D_P), where D_P is the diffusive part of a_P and s
+      // = relax_diffusive_part. With s = 1 this is a_P/alpha; with s < 1 convection keeps the
+      // pseudo-time step of alpha while most diffusion stays implicit, so the slow wall-normal
+      // diffusion modes are not damped by the relaxation (their count of outer iterations would
+      // otherwise grow with the square of the wall-normal cell count).
+      const double relaxation = (1.0 - alpha) / alpha * (diag - (1.0 - share) * diffusive);
+      const double diag_relaxed = diag + relaxation;
+      rhs_u_[o] = bu + relaxation * vel_.x(i, j);
+      rhs_v_[o] = bv + relaxation * vel_.y(i, j);
       vals[0] = diag_relaxed;
       diag_[o] = diag_relaxed;
-      d_rc_(i, j) = volume / diag_relaxed;
-      // SIMPLEC: d = V / (a_P - sum a_nb) (van Doormaal & Raithby 1984).
+      d_rc_(i, j) = volume / diag;
+      memory_(i, j) = relaxation / diag_relaxed;
+      // SIMPLEC: d = V / (a_P - sum a_nb) (van Doormaal & Raithby 1984), bounded by V / r where
+      // a transient mass imbalance makes sum a_nb exceed the unrelaxed a_P.
       d_corr_(i, j) = spec_.iterations.coupling == Coupling::simplec
-                          ? volume / std::max(diag_relaxed - sum_nb, 1e-300)
-                          : d_rc_(i, j);
+                          ? volume / std::max(diag_relaxed - sum_nb, relaxation)
+                          : volume / diag_relaxed;
       check_petsc(MatSetValuesStencil(a, 1, &row, n, cols, vals, INSERT_VALUES));
     }
   }

@@ -27,6 +27,7 @@ class PrescribedVelocity : public BoundaryCondition {
     const double s1 = in.normal_distance;
     const double c = nu_face * in.area / s1;
     row.diag += c;
+    row.diffusive += c;
     row.rhs_u += c * ub.x + nu_face * in.area * (in.normal_derivative.x - (ub.x - in.cell_velocity.x) / s1);
     row.rhs_v += c * ub.y + nu_face * in.area * (in.normal_derivative.y - (ub.y - in.cell_velocity.y) / s1);
   }
@@ -129,6 +130,7 @@ class Slip final : public BoundaryCondition {
   void add_momentum(const MomentumFaceInput& in, MomentumRow& row) const override {
     const double c = in.nu_cell * in.area / in.normal_distance;
     row.diag += c;
+    row.diffusive += c;
     row.rhs_u += c * in.face_velocity.x;
     row.rhs_v += c * in.face_velocity.y;
   }

@@ -41,6 +41,7 @@ struct MomentumFaceInput {
 struct MomentumRow {
   double diag;
   double rhs_u, rhs_v;
+  double diffusive;  ///< the diffusive part of diag (the relaxation treats it apart)
 };
 
 /// The values a model's transport equation imposes at boundaries.

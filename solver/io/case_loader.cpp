@@ -283,8 +283,9 @@ std::vector<BoundarySegmentSpec> read_boundaries(const Value& value, const FlowS
 }
 
 TurbulenceSpec read_turbulence(const Value& value) {
-  const Section section = value.section({"model", "variant", "freestream_viscosity_ratio",
-                                         "freestream_intensity", "outer_length", "relax", "convection"});
+  const Section section =
+      value.section({"model", "variant", "freestream_viscosity_ratio", "freestream_intensity", "outer_length",
+                     "relax", "relax_diffusive_part", "convection"});
   TurbulenceSpec turbulence;
   turbulence.line = value.line();
   if (const auto model = section.find("model")) {
@@ -325,13 +326,17 @@ TurbulenceSpec read_turbulence(const Value& value) {
   }
   turbulence.relax = number_or(section, "relax", turbulence.relax, "a number in (0, 1]",
                                [](double x) { return x > 0.0 && x <= 1.0; });
+  turbulence.relax_diffusive_part =
+      number_or(section, "relax_diffusive_part", turbulence.relax_diffusive_part, "a number in (0, 1]",
+                [](double x) { return x > 0.0 && x <= 1.0; });
   if (const auto scheme = section.find("convection")) turbulence.convection = read_enum(*scheme, all_schemes);
   return turbulence;
 }
 
 IterationSpec read_iterations(const Value& value) {
   const Section section = value.section({"coupling", "max", "residual_drop", "relax_velocity",
-                                         "relax_pressure", "convection", "report_every", "petsc_options"});
+                                         "relax_pressure", "relax_diffusive_part", "pressure_setup_every",
+                                         "convection", "report_every", "petsc_options"});
   IterationSpec iterations;
   if (const auto coupling = section.find("coupling")) {
     iterations.coupling = read_enum(*coupling, all_couplings);
@@ -345,6 +350,15 @@ IterationSpec read_iterations(const Value& value) {
       number_or(section, "relax_velocity", iterations.relax_velocity, "a number in (0, 1)", open_unit);
   iterations.relax_pressure = number_or(section, "relax_pressure", iterations.relax_pressure,
                                         "a number in (0, 1]", [](double x) { return x > 0.0 && x <= 1.0; });
+  // Plain SIMPLE relaxes all of a_P by default: its pressure relaxation (about 1 - alpha_u)
+  // compensates the neglected neighbour coefficients only then.
+  if (iterations.coupling == Coupling::simple) iterations.relax_diffusive_part = 1.0;
+  iterations.relax_diffusive_part =
+      number_or(section, "relax_diffusive_part", iterations.relax_diffusive_part, "a number in (0, 1]",
+                [](double x) { return x > 0.0 && x <= 1.0; });
+  iterations.pressure_setup_every =
+      integer_or(section, "pressure_setup_every", iterations.pressure_setup_every, "an integer >= 1",
+                 [](int n) { return n >= 1; });
   if (const auto scheme = section.find("convection")) iterations.convection = read_enum(*scheme, all_schemes);
   iterations.report_every = integer_or(section, "report_every", iterations.report_every, "an integer >= 0",
                                        [](int n) { return n >= 0; });
@@ -501,6 +515,7 @@ std::string resolved_case_yaml(const CaseSpec& spec) {
   put(out, "freestream_intensity", spec.turbulence.freestream_intensity);
   if (spec.turbulence.outer_length) put(out, "outer_length", *spec.turbulence.outer_length);
   put(out, "relax", spec.turbulence.relax);
+  put(out, "relax_diffusive_part", spec.turbulence.relax_diffusive_part);
   put(out, "convection", name_of(spec.turbulence.convection));
   out << YAML::EndMap;
 
@@ -511,6 +526,8 @@ std::string resolved_case_yaml(const CaseSpec& spec) {
   put(out, "residual_drop", iterations.residual_drop);
   put(out, "relax_velocity", iterations.relax_velocity);
   put(out, "relax_pressure", iterations.relax_pressure);
+  put(out, "relax_diffusive_part", iterations.relax_diffusive_part);
+  put(out, "pressure_setup_every", iterations.pressure_setup_every);
   put(out, "convection", name_of(iterations.convection));
   put(out, "report_every", iterations.report_every);
   put_text(out, "petsc_options", iterations.petsc_options);

@@ -63,9 +63,10 @@ TEST(BoundaryConditions, WallMomentumGivesTheExactShearOfALinearProfileWithTheLa
   const double g = 30.0, s1 = 0.1, area = 0.5, nu = 1e-3;
   const Vec2 cell{2.0 + g * s1, 0.0};
   const MomentumFaceInput in = input(0.0, {2.0, 0.0}, cell, {-g, 0.0});
-  MomentumRow row{1.0, 0.0, 0.0};
+  MomentumRow row{1.0, 0.0, 0.0, 0.0};
   wall->add_momentum(in, row);
   EXPECT_DOUBLE_EQ(row.diag, 1.0 + nu * area / s1);
+  EXPECT_DOUBLE_EQ(row.diffusive, nu * area / s1);  // the wall's coefficient is diffusion only
   EXPECT_NEAR(row.rhs_u - (row.diag - 1.0) * cell.x, -nu * area * g, 1e-15);
   EXPECT_NEAR(row.rhs_v, 0.0, 1e-15);
 }
@@ -81,9 +82,10 @@ TEST(BoundaryConditions, InflowConvectsItsVelocityAndDiffusesWithTheCellViscosit
   EXPECT_EQ(inflow->scalar_value(3.0, -0.2, model_values), 7.0);
   EXPECT_EQ(inflow->scalar_value(3.0, 0.2, model_values), 7.0);  // prescribed in and out
   // Entering flux -0.2: the face value is carried in; the diffusion coefficient is nu_cell A / s1.
-  MomentumRow row{0.0, 0.0, 0.0};
+  MomentumRow row{0.0, 0.0, 0.0, 0.0};
   inflow->add_momentum(input(-0.2, {1.0, 0.5}, {1.0, 0.5}, {0.0, 0.0}), row);
   EXPECT_DOUBLE_EQ(row.diag, 4e-3 * 0.5 / 0.1);
+  EXPECT_DOUBLE_EQ(row.diffusive, row.diag);  // entering flow adds no convective diagonal
   EXPECT_DOUBLE_EQ(row.rhs_u, 0.2 * 1.0 + row.diag * 1.0);
   EXPECT_DOUBLE_EQ(row.rhs_v, 0.2 * 0.5 + row.diag * 0.5);
 }
@@ -106,7 +108,7 @@ TEST(BoundaryConditions, OutflowIsZeroGradientWithFixedPressure) {
   EXPECT_EQ(default_pressure->pressure(), 1.0) << "no pressure given: the reference pressure";
 
   // Leaving flow is upwind (implicit, on the diagonal); entering flow brings the cell velocity.
-  MomentumRow out{0.0, 0.0, 0.0};
+  MomentumRow out{0.0, 0.0, 0.0, 0.0};
   outflow->add_momentum(input(0.3, {0.4, -0.6}, {0.4, -0.6}, {}), out);
   EXPECT_EQ(out.diag, 0.3);
   EXPECT_EQ(out.rhs_u, 0.0);
@@ -141,7 +143,7 @@ TEST(BoundaryConditions, OpeningTakesItsVelocityOnlyWhereFlowEnters) {
   EXPECT_EQ(in.diag, 0.0);
   EXPECT_DOUBLE_EQ(in.rhs_u, 0.1 * 10.0);
   EXPECT_EQ(in.rhs_v, 0.0);
-  MomentumRow out{0.0, 0.0, 0.0};
+  MomentumRow out{0.0, 0.0, 0.0, 0.0};
   opening->add_momentum(input(0.1, leaving, cell, {}), out);
   EXPECT_EQ(out.diag, 0.1);
   EXPECT_EQ(out.rhs_u, 0.0);
@@ -161,7 +163,7 @@ TEST(BoundaryConditions, SlipRemovesTheNormalComponentAndCarriesNoFlux) {
   EXPECT_FALSE(slip->scalar_is_prescribed(0.0));
   EXPECT_EQ(slip->scalar_value(3.0, 0.0, model_values), 3.0);
   // Only the normal component feels the face: the row pulls u_P towards the slip velocity.
-  MomentumRow row{0.0, 0.0, 0.0};
+  MomentumRow row{0.0, 0.0, 0.0, 0.0};
   slip->add_momentum(input(0.0, ub, cell, {}), row);
   const double c = 4e-3 * 0.5 / 0.1;
   EXPECT_DOUBLE_EQ(row.diag, c);
