@@ -112,7 +112,7 @@ TEST(BoundaryConditions, OutflowIsZeroGradientWithFixedPressure) {
   outflow->add_momentum(input(0.3, {0.4, -0.6}, {0.4, -0.6}, {}), out);
   EXPECT_EQ(out.diag, 0.3);
   EXPECT_EQ(out.rhs_u, 0.0);
-  MomentumRow in{0.0, 0.0, 0.0};
+  MomentumRow in{0.0, 0.0, 0.0, 0.0};
   outflow->add_momentum(input(-0.3, {0.4, -0.6}, {0.4, -0.6}, {}), in);
   EXPECT_EQ(in.diag, 0.0);
   EXPECT_DOUBLE_EQ(in.rhs_u, 0.3 * 0.4);
@@ -138,7 +138,7 @@ TEST(BoundaryConditions, OpeningTakesItsVelocityOnlyWhereFlowEnters) {
   EXPECT_EQ(opening->flux_prediction(), FluxPrediction::rhie_chow);
   EXPECT_FALSE(opening->is_prescribed()) << "a manufactured function must not replace its velocity";
 
-  MomentumRow in{0.0, 0.0, 0.0};
+  MomentumRow in{0.0, 0.0, 0.0, 0.0};
   opening->add_momentum(input(-0.1, entering, cell, {}), in);
   EXPECT_EQ(in.diag, 0.0);
   EXPECT_DOUBLE_EQ(in.rhs_u, 0.1 * 10.0);
