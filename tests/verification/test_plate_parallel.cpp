@@ -22,6 +22,10 @@ TEST(PlateParallel, WorldMatchesSingleRank) {
   spec.grid.run_up_cells /= 2;
   spec.grid.first_cell_height = *spec.grid.first_cell_height * 2.0;
   spec.grid.leading_edge_spacing = *spec.grid.leading_edge_spacing * 2.0;
+  // On this coarse grid the shipped velocity relaxation (0.95) with a diffusive share of 0.1
+  // stalls in a limit cycle near a residual drop of 1e-3 (measured); 0.9 converges. The answer
+  // does not depend on the relaxation (test_relaxation_independence).
+  spec.iterations.relax_velocity = 0.9;
   auto world = test_support::run_case_on(MPI_COMM_WORLD, spec, [](FlowSolver&) {});
   auto single = test_support::run_case_on(MPI_COMM_SELF, spec, [](FlowSolver&) {});
   ASSERT_TRUE(world.converged);
