@@ -9,6 +9,7 @@
 #include <optional>
 
 #include "core/error.hpp"
+#include "discretization/matrix_row.hpp"
 
 namespace wallrans {
 
@@ -139,7 +140,13 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
   }
   rhs_u_.assign(grid.n_owned(), 0.0);
   rhs_v_.assign(grid.n_owned(), 0.0);
-  diag_.assign(grid.n_owned(), 0.0);
+  terms_e_.assign(grid.n_ghosted(), FaceTerms{});
+  terms_n_.assign(grid.n_ghosted(), FaceTerms{});
+  for (PressureCoefficients* c : {&coefficients_, &setup_coefficients_}) {
+    c->east = Field(grid);
+    c->north = Field(grid);
+    c->boundary.assign(bfaces_.size(), 0.0);
+  }
 }
 
 void FlowSolver::update_velocity_boundary_values() {
@@ -151,6 +158,14 @@ void FlowSolver::update_velocity_boundary_values() {
     u_b_[k] = value.x;
     v_b_[k] = value.y;
   }
+}
+
+void FlowSolver::update_velocity_gradients() {
+  update_velocity_boundary_values();
+  lsq_all_->compute(vel_.x, u_b_, grad_u_);
+  lsq_all_->compute(vel_.y, v_b_, grad_v_);
+  grad_u_.exchange();
+  grad_v_.exchange();
 }
 
 void FlowSolver::update_pressure_gradient_and_boundary_values() {
@@ -198,11 +213,7 @@ IterationStatus FlowSolver::iterate() {
     nu_eff_.data()[k] = spec_.flow.kinematic_viscosity + nut.data()[k];
 
   phase.emplace(stages_.correction_gradients);
-  update_velocity_boundary_values();
-  lsq_all_->compute(vel_.x, u_b_, grad_u_);
-  lsq_all_->compute(vel_.y, v_b_, grad_v_);
-  grad_u_.exchange();
-  grad_v_.exchange();
+  update_velocity_gradients();
   update_pressure_gradient_and_boundary_values();
 
   phase.emplace(stages_.momentum_assembly);
@@ -340,38 +351,35 @@ void FlowSolver::solve_momentum(IterationStatus& status) {
   memory_.exchange();
 }
 
-double FlowSolver::interior_flux(int il, int jl, int ir, int jr, const FaceGeometry& face,
-                                 double flux_old) const {
-  const Vec2 xl = grid_.centre(il, jl), xr = grid_.centre(ir, jr);
-  const Vec2 d = xr - xl;
-  const double wl = dot(xr - face.centre, d) / dot(d, d);
-  const Vec2 xm = xl + (1.0 - wl) * d;  // projection of the face centre on the line L-R
-  const Vec2 skew = face.centre - xm;
+double FlowSolver::interior_flux(size_t l, size_t r, const FaceGeometry& face, double flux_old) const {
+  const double wl = face.wl, wr = 1.0 - wl;
+  // Velocity interpolated to the face centre, with the skewness correction along face.skew.
+  const Vec2 gu = wl * grad_u_[l] + wr * grad_u_[r];
+  const Vec2 gv = wl * grad_v_[l] + wr * grad_v_[r];
+  const Vec2 skew_correction{dot(gu, face.skew), dot(gv, face.skew)};
   auto interp = [&](const VectorField& vel) {
-    const Vec2 gu = wl * grad_u_(il, jl) + (1.0 - wl) * grad_u_(ir, jr);
-    const Vec2 gv = wl * grad_v_(il, jl) + (1.0 - wl) * grad_v_(ir, jr);
-    const Vec2 mean = wl * vel(il, jl) + (1.0 - wl) * vel(ir, jr);
-    return Vec2{mean.x + dot(gu, skew), mean.y + dot(gv, skew)};
+    const Vec2 mean = wl * vel[l] + wr * vel[r];
+    return Vec2{mean.x + skew_correction.x, mean.y + skew_correction.y};
   };
-  const double k = dot(face.area, face.area) / dot(face.area, d);
   // Relaxation-consistent Rhie-Chow (Majumdar 1988), generalised to a relaxation share m = r / (a_P
   // + r) that varies from cell to cell: F = S.u_bar + (1 - m_f) (V/a_P)_f k (grad p_bar . d - dp)
   // + m_f (F_old - S.u_bar_old). At convergence (F = F_old) the m_f terms cancel exactly, so
   // the answer does not depend on the relaxation.
-  const double m_face = wl * memory_(il, jl) + (1.0 - wl) * memory_(ir, jr);
-  const double d_face = (1.0 - m_face) * (wl * d_rc_(il, jl) + (1.0 - wl) * d_rc_(ir, jr));
-  const Vec2 gp = wl * grad_p_(il, jl) + (1.0 - wl) * grad_p_(ir, jr);
+  const double m_face = wl * memory_[l] + wr * memory_[r];
+  const double d_face = (1.0 - m_face) * (wl * d_rc_[l] + wr * d_rc_[r]);
+  const Vec2 gp = wl * grad_p_[l] + wr * grad_p_[r];
   const double memory = m_face * (flux_old - dot(interp(vel_old_), face.area));
-  return dot(interp(vel_), face.area) + d_face * k * (dot(gp, d) - (p_(ir, jr) - p_(il, jl))) + memory;
+  return dot(interp(vel_), face.area) + d_face * face.k * (dot(gp, face.d) - (p_[r] - p_[l])) + memory;
 }
 
 void FlowSolver::predict_fluxes() {
   for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
     for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
+      const size_t c = grid_.local(i, j);
       if (grid_.has_east(i))
-        flux_e_(i, j) = interior_flux(i, j, i + 1, j, grid_.east_face(i, j), flux_e_old_(i, j));
+        flux_e_[c] = interior_flux(c, grid_.local(i + 1, j), grid_.east_face(i, j), flux_e_old_[c]);
       if (grid_.has_north(j))
-        flux_n_(i, j) = interior_flux(i, j, i, j + 1, grid_.north_face(i, j), flux_n_old_(i, j));
+        flux_n_[c] = interior_flux(c, grid_.local(i, j + 1), grid_.north_face(i, j), flux_n_old_[c]);
     }
   }
   for (size_t k = 0; k < bfaces_.size(); ++k) {
@@ -403,45 +411,49 @@ void FlowSolver::predict_fluxes() {
   flux_n_.exchange();
 }
 
-double FlowSolver::pressure_coefficient(const Field& d_corr, int il, int jl, int ir, int jr,
-                                        const FaceGeometry& face) const {
-  // A_f = d_f |S|^2 / (S . d): the face-flux response to the p' difference across the face.
-  const Vec2 d = grid_.centre(ir, jr) - grid_.centre(il, jl);
-  const double wl = dot(grid_.centre(ir, jr) - face.centre, d) / dot(d, d);
-  const double dc = wl * d_corr(il, jl) + (1.0 - wl) * d_corr(ir, jr);
-  return dc * dot(face.area, face.area) / dot(face.area, d);
+void FlowSolver::pressure_coefficients(const Field& d, PressureCoefficients& out) const {
+  // A_f = d_f |S|^2 / (S . d): the face-flux response to the p' difference across the face; at a
+  // fixed-pressure face the difference is taken to the face centre, where p' = 0.
+  auto coefficient = [&](size_t l, size_t r, const FaceGeometry& face) {
+    const double dc = face.wl * d[l] + (1.0 - face.wl) * d[r];
+    return dc * dot(face.area, face.area) / dot(face.area, face.d);
+  };
+  for_each_interior_face(
+      grid_,
+      [&](int i, int j) {
+        const size_t l = grid_.local(i, j);
+        out.east[l] = coefficient(l, grid_.local(i + 1, j), grid_.east_face(i, j));
+      },
+      [&](int i, int j) {
+        const size_t l = grid_.local(i, j);
+        out.north[l] = coefficient(l, grid_.local(i, j + 1), grid_.north_face(i, j));
+      });
+  for (size_t k = 0; k < bfaces_.size(); ++k) {
+    const BoundaryFace& f = bfaces_[k];
+    if (!is_pressure_boundary(f)) continue;
+    const Vec2 r = f.centre - grid_.centre(f.i, f.j);
+    out.boundary[k] = d(f.i, f.j) * dot(f.area, f.area) / dot(f.area, r);
+  }
 }
 
-void FlowSolver::assemble_pressure_matrix(const Field& d, Mat a) const {
+void FlowSolver::assemble_pressure_matrix(const PressureCoefficients& c, Mat a) const {
   check_petsc(MatZeroEntries(a));
   for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
     for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
-      MatStencil row{0, j, i, 0};
-      MatStencil cols[5];
-      double vals[5];
-      int n = 1;
-      cols[0] = row;
-      vals[0] = 0.0;
-      auto add = [&](int in, int jn, double coef) {
-        vals[0] += coef;
-        cols[n] = MatStencil{0, jn, in, 0};
-        vals[n++] = -coef;
+      MatrixRow row;
+      auto add = [&](double coef, double& entry) {
+        row.centre += coef;
+        entry = -coef;
       };
-      if (grid_.has_east(i)) add(i + 1, j, pressure_coefficient(d, i, j, i + 1, j, grid_.east_face(i, j)));
-      if (grid_.has_west(i))
-        add(i - 1, j, pressure_coefficient(d, i - 1, j, i, j, grid_.east_face(i - 1, j)));
-      if (grid_.has_north(j)) add(i, j + 1, pressure_coefficient(d, i, j, i, j + 1, grid_.north_face(i, j)));
-      if (grid_.has_south(j))
-        add(i, j - 1, pressure_coefficient(d, i, j - 1, i, j, grid_.north_face(i, j - 1)));
-      check_petsc(MatSetValuesStencil(a, 1, &row, n, cols, vals, ADD_VALUES));
+      if (grid_.has_east(i)) add(c.east(i, j), row.east);
+      if (grid_.has_west(i)) add(c.east(i - 1, j), row.west);
+      if (grid_.has_north(j)) add(c.north(i, j), row.north);
+      if (grid_.has_south(j)) add(c.north(i, j - 1), row.south);
+      for (int slot : cell_faces_[grid_.owned(i, j)]) {
+        if (slot >= 0) row.centre += c.boundary[slot];  // zero unless the pressure is fixed there
+      }
+      write_row(grid_, a, i, j, row, ADD_VALUES);
     }
-  }
-  for (const auto& f : bfaces_) {
-    if (!is_pressure_boundary(f)) continue;
-    const Vec2 r = f.centre - grid_.centre(f.i, f.j);
-    const double coef = d(f.i, f.j) * dot(f.area, f.area) / dot(f.area, r);
-    MatStencil row{0, f.j, f.i, 0};
-    check_petsc(MatSetValuesStencil(a, 1, &row, 1, &row, &coef, ADD_VALUES));
   }
   check_petsc(MatAssemblyBegin(a, MAT_FINAL_ASSEMBLY));
   check_petsc(MatAssemblyEnd(a, MAT_FINAL_ASSEMBLY));
@@ -465,14 +477,14 @@ void FlowSolver::assemble_and_solve_pressure_correction(IterationStatus& status)
       b[j][i] = -net_out;
       imbalance += std::abs(net_out);
       // The cell's imbalance relative to the flux U_ref carries through half its faces.
-      const double half_perimeter =
-          0.5 * (norm(grid_.east_face(i, j).area) + norm(grid_.east_face(i - 1, j).area) +
-                 norm(grid_.north_face(i, j).area) + norm(grid_.north_face(i, j - 1).area));
+      const double half_perimeter = 0.5 * (grid_.east_face(i, j).length + grid_.east_face(i - 1, j).length +
+                                           grid_.north_face(i, j).length + grid_.north_face(i, j - 1).length);
       imbalance_per_cell += std::abs(net_out) / (u_ref * half_perimeter);
     }
   }
   check_petsc(DMDAVecRestoreArray(grid_.dm(), b_vec_.get(), &b));
-  assemble_pressure_matrix(d_corr_, a_pc_.get());
+  pressure_coefficients(d_corr_, coefficients_);
+  assemble_pressure_matrix(coefficients_, a_pc_.get());
   status.absolute.continuity = grid_.global_sum(imbalance);
   continuity_per_cell_ =
       grid_.global_sum(imbalance_per_cell) / (static_cast<double>(grid_.cells_x()) * grid_.cells_y());
@@ -483,9 +495,14 @@ void FlowSolver::assemble_and_solve_pressure_correction(IterationStatus& status)
   // The cadence is keyed to the iteration number and the coefficients it was built from are part
   // of the restart state, so a restarted run rebuilds the very same preconditioner.
   const bool on_cadence = (iteration_ - 1) % spec_.iterations.pressure_setup_every == 0;
-  if (on_cadence) d_setup_ = d_corr_;
+  if (on_cadence) {
+    d_setup_ = d_corr_;
+    check_petsc(MatCopy(a_pc_.get(), a_pc_setup_.get(), SAME_NONZERO_PATTERN));
+  } else if (!preconditioner_ready_) {
+    pressure_coefficients(d_setup_, setup_coefficients_);
+    assemble_pressure_matrix(setup_coefficients_, a_pc_setup_.get());
+  }
   const bool set_up = on_cadence || !preconditioner_ready_;
-  if (set_up) assemble_pressure_matrix(d_setup_, a_pc_setup_.get());
   check_petsc(KSPSetReusePreconditioner(ksp_pc_.get(), set_up ? PETSC_FALSE : PETSC_TRUE));
   check_petsc(KSPSetOperators(ksp_pc_.get(), a_pc_.get(), a_pc_setup_.get()));
   preconditioner_ready_ = true;
@@ -495,22 +512,18 @@ void FlowSolver::assemble_and_solve_pressure_correction(IterationStatus& status)
 }
 
 void FlowSolver::correct() {
-  // Flux corrections F' = -A_f (p'_R - p'_L) keep every cell's mass balance to solver tolerance.
+  // Flux corrections F' = -A_f (p'_R - p'_L), with the coefficients of the p' matrix, keep every
+  // cell's mass balance to solver tolerance.
+  const PressureCoefficients& c = coefficients_;
   for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
     for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
-      if (grid_.has_east(i))
-        flux_e_(i, j) -= pressure_coefficient(d_corr_, i, j, i + 1, j, grid_.east_face(i, j)) *
-                         (pc_(i + 1, j) - pc_(i, j));
-      if (grid_.has_north(j))
-        flux_n_(i, j) -= pressure_coefficient(d_corr_, i, j, i, j + 1, grid_.north_face(i, j)) *
-                         (pc_(i, j + 1) - pc_(i, j));
+      if (grid_.has_east(i)) flux_e_(i, j) -= c.east(i, j) * (pc_(i + 1, j) - pc_(i, j));
+      if (grid_.has_north(j)) flux_n_(i, j) -= c.north(i, j) * (pc_(i, j + 1) - pc_(i, j));
     }
   }
   for (size_t k = 0; k < bfaces_.size(); ++k) {
     const BoundaryFace& f = bfaces_[k];
-    if (!is_pressure_boundary(f)) continue;
-    const Vec2 d = f.centre - grid_.centre(f.i, f.j);
-    bflux_[k] += d_corr_(f.i, f.j) * dot(f.area, f.area) / dot(f.area, d) * pc_(f.i, f.j);
+    if (is_pressure_boundary(f)) bflux_[k] += c.boundary[k] * pc_(f.i, f.j);
   }
   lsq_pressure_->compute(pc_, zero_b_, grad_pc_);
   const double alpha_p = spec_.iterations.relax_pressure;

@@ -100,19 +100,31 @@ class FlowSolver {
   void restarted();
 
  private:
-  struct FaceTerms;
+  /// Momentum terms of one interior face.
+  struct FaceTerms {
+    double diffusion;   ///< implicit diffusion coefficient nu_f |S|^2 / (S . d)
+    double explicit_u;  ///< explicit part of the flux balance of the left cell, u equation
+    double explicit_v;
+  };
+  /// Coefficients A_f of the pressure-correction equation: interior faces (stored at the lower
+  /// cell like the fluxes) and fixed-pressure boundary faces (bfaces_ order, zero elsewhere).
+  struct PressureCoefficients {
+    Field east, north;
+    std::vector<double> boundary;
+  };
   void update_velocity_boundary_values();
+  void update_velocity_gradients();
   void update_pressure_gradient_and_boundary_values();
   void assemble_momentum(ResidualNorms& residual);
   void solve_momentum(IterationStatus& status);
   void predict_fluxes();
   void assemble_and_solve_pressure_correction(IterationStatus& status);
   void correct();
-  FaceTerms interior_face_terms(int il, int jl, int ir, int jr, const FaceGeometry& face, double flux) const;
-  double pressure_coefficient(const Field& d_corr, int il, int jl, int ir, int jr,
-                              const FaceGeometry& face) const;
-  void assemble_pressure_matrix(const Field& d_corr, Mat a) const;
-  double interior_flux(int il, int jl, int ir, int jr, const FaceGeometry& face, double flux_old) const;
+  FaceTerms interior_face_terms(size_t l, size_t r, const FaceGeometry& face, double flux) const;
+  void compute_face_terms();
+  void pressure_coefficients(const Field& d, PressureCoefficients& out) const;
+  void assemble_pressure_matrix(const PressureCoefficients& coefficients, Mat a) const;
+  double interior_flux(size_t l, size_t r, const FaceGeometry& face, double flux_old) const;
   double normal_derivative(const Field& phi, const VectorField& grad, double phi_b,
                            const BoundaryFace& face) const;
   const BoundaryCondition& condition(const BoundaryFace& face) const { return conditions_.of(face); }
@@ -145,7 +157,10 @@ class FlowSolver {
   Field p_, pc_, nu_eff_, d_rc_, d_corr_, memory_, flux_e_, flux_n_, flux_e_old_, flux_n_old_;
   std::vector<double> u_b_, v_b_, p_b_, zero_b_;  // boundary values (bfaces_ order)
   std::unique_ptr<LeastSquaresGradient> lsq_all_, lsq_pressure_;
-  std::vector<double> rhs_u_, rhs_v_, diag_;  // owned order
+  std::vector<double> rhs_u_, rhs_v_;  // owned order
+  // Momentum terms of every interior face of an owned cell, indexed like the fluxes.
+  std::vector<FaceTerms> terms_e_, terms_n_;
+  PressureCoefficients coefficients_, setup_coefficients_;
 
   OwnedMat a_mom_, a_pc_, a_pc_setup_;  // a_pc_setup_: the matrix the pressure preconditioner was built from
   Field d_setup_;                       // SIMPLEC d of the last preconditioner set-up (restart state)
