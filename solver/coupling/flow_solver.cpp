@@ -166,6 +166,7 @@ void FlowSolver::update_velocity_gradients() {
   lsq_all_->compute(vel_.y, v_b_, grad_v_);
   grad_u_.exchange();
   grad_v_.exchange();
+  velocity_gradients_current_ = true;
 }
 
 void FlowSolver::update_pressure_gradient_and_boundary_values() {
@@ -213,7 +214,9 @@ IterationStatus FlowSolver::iterate() {
     nu_eff_.data()[k] = spec_.flow.kinematic_viscosity + nut.data()[k];
 
   phase.emplace(stages_.correction_gradients);
-  update_velocity_gradients();
+  // The velocity gradients were refreshed after the last correction; only the first iteration
+  // (also after a restart or a new boundary function) computes them here.
+  if (!velocity_gradients_current_) update_velocity_gradients();
   update_pressure_gradient_and_boundary_values();
 
   phase.emplace(stages_.momentum_assembly);
@@ -225,9 +228,11 @@ IterationStatus FlowSolver::iterate() {
   assemble_and_solve_pressure_correction(status);
   phase.emplace(stages_.correction_gradients);
   correct();
+  // The wall shear and the model see the gradients of the corrected velocity, and the next
+  // momentum assembly uses them as they are.
+  update_velocity_gradients();
 
   phase.emplace(stages_.monitors);
-  update_velocity_boundary_values();
   refresh_wall_shear();
   phase.emplace(stages_.turbulence);
   model_.update(view());
@@ -276,6 +281,7 @@ SolverRestartState FlowSolver::restart_state() {
 void FlowSolver::restarted() {
   d_setup_.exchange();
   preconditioner_ready_ = false;
+  velocity_gradients_current_ = false;  // recomputed from the restored velocity and boundary fluxes
   vel_.exchange();
   p_.exchange();
   grad_p_.exchange();

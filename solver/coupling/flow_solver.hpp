@@ -67,7 +67,10 @@ class FlowSolver {
   /// Extra momentum source per unit mass s(x) [m/s^2] (manufactured solutions).
   void set_momentum_source(std::function<Vec2(Vec2)> source) { source_ = std::move(source); }
   /// Replaces the velocity of wall and inflow segments by a function of position.
-  void set_boundary_velocity(std::function<Vec2(Vec2)> velocity) { boundary_velocity_ = std::move(velocity); }
+  void set_boundary_velocity(std::function<Vec2(Vec2)> velocity) {
+    boundary_velocity_ = std::move(velocity);
+    velocity_gradients_current_ = false;
+  }
   /// Replaces the volume flux through wall/inflow faces by f(centre, outward area) [m^2/s], e.g.
   /// the exact integral of a manufactured velocity, so that the boundary fluxes of a closed
   /// domain sum to zero exactly.
@@ -81,6 +84,7 @@ class FlowSolver {
   const VectorField& velocity() const { return vel_; }
   const Field& pressure() const { return p_; }
   const Field& eddy_viscosity() const { return model_.eddy_viscosity(); }
+  /// Gradients of the current velocity components (refreshed after each correction).
   const VectorField& grad_u() const { return grad_u_; }
   const VectorField& grad_v() const { return grad_v_; }
   const Grid& grid() const { return grid_; }
@@ -149,7 +153,8 @@ class FlowSolver {
   std::vector<int> wall_id_;        // global wall-face id of each owned boundary face, -1 if not a wall
   std::vector<double> wall_shear_;  // |tau_w| per global wall face
   int iteration_ = 0;
-  double continuity_per_cell_ = 0.0;  // mean relative mass imbalance of the last iteration
+  bool velocity_gradients_current_ = false;  // grad_u_, grad_v_ belong to vel_ and u_b_, v_b_
+  double continuity_per_cell_ = 0.0;         // mean relative mass imbalance of the last iteration
 
   VectorField vel_, vel_old_, grad_u_, grad_v_, grad_p_, grad_pc_;
   // Interior-face fluxes: flux_e_(i, j) through the face between (i, j) and (i + 1, j),
