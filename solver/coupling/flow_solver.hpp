@@ -147,11 +147,14 @@ class FlowSolver {
   std::function<Vec2(Vec2)> source_, boundary_velocity_;
   std::function<double(Vec2, Vec2)> boundary_flux_fn_;
   void refresh_wall_shear();
+  /// Local: nu dU_t/dn at owned boundary face k (a wall), sign as in WallSample.
+  double wall_shear_stress(size_t k) const;
   MeanFlowView view() const;
   bool has_pressure_boundary_ = false;
   std::vector<double> bflux_, bflux_old_;  // outward flux of each owned boundary face (bfaces_ order)
-  std::vector<int> wall_id_;        // global wall-face id of each owned boundary face, -1 if not a wall
-  std::vector<double> wall_shear_;  // |tau_w| per global wall face
+  std::vector<int> wall_id_;              // global wall-face id of each owned boundary face, -1 if not a wall
+  std::vector<double> wall_shear_;        // |tau_w| per global wall face
+  std::vector<double> wall_shear_local_;  // this rank's part of wall_shear_ before the sum
   int iteration_ = 0;
   bool velocity_gradients_current_ = false;  // grad_u_, grad_v_ belong to vel_ and u_b_, v_b_
   double continuity_per_cell_ = 0.0;         // mean relative mass imbalance of the last iteration
