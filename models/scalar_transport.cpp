@@ -22,9 +22,9 @@ ScalarTransport::ScalarTransport(const Grid& grid, const BoundaryMap& boundaries
       phi_b_(faces_.size(), 0.0),
       grad_(grid),
       terms_e_(grid.n_ghosted()),
-      terms_n_(grid.n_ghosted()) {
+      terms_n_(grid.n_ghosted()),
+      matrix_(grid.dm()) {
   lsq_ = std::make_unique<LeastSquaresGradient>(grid, faces_, [](const BoundaryFace&) { return true; });
-  check_petsc(DMCreateMatrix(grid.dm(), matrix_.out()));
   check_petsc(DMCreateGlobalVector(grid.dm(), rhs_.out()));
   check_petsc(DMCreateGlobalVector(grid.dm(), solution_.out()));
   check_petsc(KSPCreate(grid.comm(), ksp_.out()));
@@ -90,8 +90,7 @@ double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
 
   // flow.boundary_faces is owned_boundary_faces(grid) too, so faces_'s slots index it.
 
-  Mat a = matrix_.get();
-  check_petsc(MatZeroEntries(a));
+  StencilMatrix::Fill fill = matrix_.begin_fill();
   PetscScalar** b = nullptr;
   check_petsc(DMDAVecGetArray(grid_.dm(), rhs_.get(), &b));
   double residual = 0.0;
@@ -175,19 +174,18 @@ double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
           (1.0 - eq.relax) / eq.relax * (diag - (1.0 - eq.relax_diffusive_part) * diffusive);
       row.centre = diag + relaxation;
       b[j][i] = rhs + relaxation * phi(i, j);
-      write_row(grid_, a, i, j, row, INSERT_VALUES);
+      write_row(grid_, fill, i, j, row);
     }
   }
   check_petsc(DMDAVecRestoreArray(grid_.dm(), rhs_.get(), &b));
-  check_petsc(MatAssemblyBegin(a, MAT_FINAL_ASSEMBLY));
-  check_petsc(MatAssemblyEnd(a, MAT_FINAL_ASSEMBLY));
+  fill.end();
 
   PetscScalar** x = nullptr;
   check_petsc(DMDAVecGetArray(grid_.dm(), solution_.get(), &x));
   for (int j = grid_.y_begin(); j < grid_.y_end(); ++j)
     for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) x[j][i] = phi(i, j);
   check_petsc(DMDAVecRestoreArray(grid_.dm(), solution_.get(), &x));
-  check_petsc(KSPSetOperators(ksp_.get(), a, a));
+  check_petsc(KSPSetOperators(ksp_.get(), matrix_.mat(), matrix_.mat()));
   check_petsc(KSPSolve(ksp_.get(), rhs_.get(), solution_.get()));
   check_petsc(DMDAVecGetArray(grid_.dm(), solution_.get(), &x));
   for (int j = grid_.y_begin(); j < grid_.y_end(); ++j)

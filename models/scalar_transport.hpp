@@ -9,6 +9,7 @@
 
 #include "discretization/least_squares_gradient.hpp"
 #include "linear/petsc_handles.hpp"
+#include "linear/stencil_matrix.hpp"
 #include "models/turbulence_model.hpp"
 
 namespace wallrans {
@@ -62,7 +63,7 @@ class ScalarTransport {
   std::function<double(Vec2)> boundary_function_;
   VectorField grad_;
   std::vector<FaceTerms> terms_e_, terms_n_;  // every interior face of an owned cell, like the fluxes
-  OwnedMat matrix_;
+  StencilMatrix matrix_;
   OwnedVec rhs_, solution_;
   OwnedKsp ksp_;
 };

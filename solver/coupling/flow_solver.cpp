@@ -52,6 +52,9 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
       v_b_(bfaces_.size(), 0.0),
       p_b_(bfaces_.size(), 0.0),
       zero_b_(bfaces_.size(), 0.0),
+      a_mom_(grid.dm()),
+      a_pc_(grid.dm()),
+      a_pc_setup_(grid.dm()),
       d_setup_(grid) {
   has_pressure_boundary_ = conditions_.has_fixed_pressure();
   // Global numbering of the wall faces: the wall faces in boundary-face id order.
@@ -118,9 +121,6 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
   set_default_option("-pressure_pc_hypre_boomeramg_relax_type_all", "symmetric-SOR/Jacobi");
   set_default_option("-pressure_ksp_rtol", "1e-2");
   set_default_option("-pressure_ksp_max_it", "500");
-  check_petsc(DMCreateMatrix(grid.dm(), a_mom_.out()));
-  check_petsc(DMCreateMatrix(grid.dm(), a_pc_.out()));
-  check_petsc(DMCreateMatrix(grid.dm(), a_pc_setup_.out()));
   check_petsc(DMCreateGlobalVector(grid.dm(), b_vec_.out()));
   check_petsc(DMCreateGlobalVector(grid.dm(), x_vec_.out()));
   check_petsc(KSPCreate(grid.comm(), ksp_mom_.out()));
@@ -136,8 +136,8 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
   if (!has_pressure_boundary_) {
     // Closed or periodic domain: p' is defined up to a constant (NUMERICS: constant null space).
     check_petsc(MatNullSpaceCreate(grid.comm(), PETSC_TRUE, 0, nullptr, null_space_.out()));
-    check_petsc(MatSetNullSpace(a_pc_.get(), null_space_.get()));
-    check_petsc(MatSetNullSpace(a_pc_setup_.get(), null_space_.get()));
+    check_petsc(MatSetNullSpace(a_pc_.mat(), null_space_.get()));
+    check_petsc(MatSetNullSpace(a_pc_setup_.mat(), null_space_.get()));
   }
   rhs_u_.assign(grid.n_owned(), 0.0);
   rhs_v_.assign(grid.n_owned(), 0.0);
@@ -338,7 +338,7 @@ void FlowSolver::solve_linear(KSP ksp, Vec rhs, Field& solution, int& iterations
 }
 
 void FlowSolver::solve_momentum(IterationStatus& status) {
-  check_petsc(KSPSetOperators(ksp_mom_.get(), a_mom_.get(), a_mom_.get()));
+  check_petsc(KSPSetOperators(ksp_mom_.get(), a_mom_.mat(), a_mom_.mat()));
   for (int component = 0; component < 2; ++component) {
     const auto& rhs = component == 0 ? rhs_u_ : rhs_v_;
     PetscScalar** b = nullptr;

@@ -14,6 +14,7 @@
 #include "grid/boundary_faces.hpp"
 #include "grid/grid.hpp"
 #include "linear/petsc_handles.hpp"
+#include "linear/stencil_matrix.hpp"
 #include "models/turbulence_model.hpp"
 
 namespace wallrans {
@@ -127,7 +128,7 @@ class FlowSolver {
   FaceTerms interior_face_terms(size_t l, size_t r, const FaceGeometry& face, double flux) const;
   void compute_face_terms();
   void pressure_coefficients(const Field& d, PressureCoefficients& out) const;
-  void assemble_pressure_matrix(const PressureCoefficients& coefficients, Mat a) const;
+  void assemble_pressure_matrix(const PressureCoefficients& coefficients, StencilMatrix& a) const;
   double interior_flux(size_t l, size_t r, const FaceGeometry& face, double flux_old) const;
   double normal_derivative(const Field& phi, const VectorField& grad, double phi_b,
                            const BoundaryFace& face) const;
@@ -170,8 +171,9 @@ class FlowSolver {
   std::vector<FaceTerms> terms_e_, terms_n_;
   PressureCoefficients coefficients_, setup_coefficients_;
 
-  OwnedMat a_mom_, a_pc_, a_pc_setup_;  // a_pc_setup_: the matrix the pressure preconditioner was built from
-  Field d_setup_;                       // SIMPLEC d of the last preconditioner set-up (restart state)
+  StencilMatrix a_mom_, a_pc_,
+      a_pc_setup_;  // a_pc_setup_: the matrix the pressure preconditioner was built from
+  Field d_setup_;   // SIMPLEC d of the last preconditioner set-up (restart state)
   bool preconditioner_ready_ = false;
   OwnedVec b_vec_, x_vec_;
   OwnedKsp ksp_mom_, ksp_pc_;

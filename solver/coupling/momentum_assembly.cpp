@@ -83,8 +83,7 @@ void FlowSolver::compute_face_terms() {
 }
 
 void FlowSolver::assemble_momentum(ResidualNorms& residual) {
-  Mat a = a_mom_.get();
-  check_petsc(MatZeroEntries(a));
+  StencilMatrix::Fill fill = a_mom_.begin_fill();
   const double alpha = spec_.iterations.relax_velocity;
   const double share = spec_.iterations.relax_diffusive_part;
   const double nu = spec_.flow.kinematic_viscosity;
@@ -179,11 +178,10 @@ void FlowSolver::assemble_momentum(ResidualNorms& residual) {
       // SIMPLEC: d = V / (a_P - sum a_nb) (van Doormaal & Raithby 1984), bounded by V / r where
       // a transient mass imbalance makes sum a_nb exceed the unrelaxed a_P.
       d_corr_[c] = is_simplec ? volume / std::max(diag_relaxed - sum_nb, relaxation) : volume / diag_relaxed;
-      write_row(grid_, a, i, j, row, INSERT_VALUES);
+      write_row(grid_, fill, i, j, row);
     }
   }
-  check_petsc(MatAssemblyBegin(a, MAT_FINAL_ASSEMBLY));
-  check_petsc(MatAssemblyEnd(a, MAT_FINAL_ASSEMBLY));
+  fill.end();
   residual.u = grid_.global_sum(res_u);
   residual.v = grid_.global_sum(res_v);
 }

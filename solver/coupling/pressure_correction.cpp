@@ -96,8 +96,8 @@ void FlowSolver::pressure_coefficients(const Field& d, PressureCoefficients& out
   }
 }
 
-void FlowSolver::assemble_pressure_matrix(const PressureCoefficients& c, Mat a) const {
-  check_petsc(MatZeroEntries(a));
+void FlowSolver::assemble_pressure_matrix(const PressureCoefficients& c, StencilMatrix& a) const {
+  StencilMatrix::Fill fill = a.begin_fill();
   for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
     for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
       MatrixRow row;
@@ -112,11 +112,10 @@ void FlowSolver::assemble_pressure_matrix(const PressureCoefficients& c, Mat a) 
       for (int slot : cell_faces_[grid_.owned(i, j)]) {
         if (slot >= 0) row.centre += c.boundary[slot];  // zero unless the pressure is fixed there
       }
-      write_row(grid_, a, i, j, row, ADD_VALUES);
+      write_row(grid_, fill, i, j, row);
     }
   }
-  check_petsc(MatAssemblyBegin(a, MAT_FINAL_ASSEMBLY));
-  check_petsc(MatAssemblyEnd(a, MAT_FINAL_ASSEMBLY));
+  fill.end();
 }
 
 void FlowSolver::assemble_and_solve_pressure_correction(IterationStatus& status) {
@@ -144,7 +143,7 @@ void FlowSolver::assemble_and_solve_pressure_correction(IterationStatus& status)
   }
   check_petsc(DMDAVecRestoreArray(grid_.dm(), b_vec_.get(), &b));
   pressure_coefficients(d_corr_, coefficients_);
-  assemble_pressure_matrix(coefficients_, a_pc_.get());
+  assemble_pressure_matrix(coefficients_, a_pc_);
   status.absolute.continuity = grid_.global_sum(imbalance);
   continuity_per_cell_ =
       grid_.global_sum(imbalance_per_cell) / (static_cast<double>(grid_.cells_x()) * grid_.cells_y());
@@ -157,14 +156,14 @@ void FlowSolver::assemble_and_solve_pressure_correction(IterationStatus& status)
   const bool on_cadence = (iteration_ - 1) % spec_.iterations.pressure_setup_every == 0;
   if (on_cadence) {
     d_setup_ = d_corr_;
-    check_petsc(MatCopy(a_pc_.get(), a_pc_setup_.get(), SAME_NONZERO_PATTERN));
+    check_petsc(MatCopy(a_pc_.mat(), a_pc_setup_.mat(), SAME_NONZERO_PATTERN));
   } else if (!preconditioner_ready_) {
     pressure_coefficients(d_setup_, setup_coefficients_);
-    assemble_pressure_matrix(setup_coefficients_, a_pc_setup_.get());
+    assemble_pressure_matrix(setup_coefficients_, a_pc_setup_);
   }
   const bool set_up = on_cadence || !preconditioner_ready_;
   check_petsc(KSPSetReusePreconditioner(ksp_pc_.get(), set_up ? PETSC_FALSE : PETSC_TRUE));
-  check_petsc(KSPSetOperators(ksp_pc_.get(), a_pc_.get(), a_pc_setup_.get()));
+  check_petsc(KSPSetOperators(ksp_pc_.get(), a_pc_.mat(), a_pc_setup_.mat()));
   preconditioner_ready_ = true;
   std::fill(pc_.data().begin(), pc_.data().end(), 0.0);
   solve_linear(ksp_pc_.get(), b_vec_.get(), pc_, status.pressure_iterations, status.linear_solves_converged);

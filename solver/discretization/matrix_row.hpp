@@ -2,10 +2,8 @@
 // of a 5-point operator on the grid's DMDA.
 #pragma once
 
-#include <petscdmda.h>
-
-#include "core/error.hpp"
 #include "grid/grid.hpp"
+#include "linear/stencil_matrix.hpp"
 
 namespace wallrans {
 
@@ -16,23 +14,16 @@ struct MatrixRow {
   double east = 0.0, west = 0.0, north = 0.0, south = 0.0;
 };
 
-/// Local: writes `row` as row (i, j) of the DMDA matrix `a` (INSERT_VALUES or ADD_VALUES); a
-/// neighbour across a non-periodic domain side is left out.
-inline void write_row(const Grid& grid, Mat a, int i, int j, const MatrixRow& row, InsertMode mode) {
-  MatStencil cols[5];
-  double vals[5];
-  cols[0] = MatStencil{0, j, i, 0};
-  vals[0] = row.centre;
-  int n = 1;
-  auto neighbour = [&](int in, int jn, double value) {
-    cols[n] = MatStencil{0, jn, in, 0};
-    vals[n++] = value;
-  };
-  if (grid.has_east(i)) neighbour(i + 1, j, row.east);
-  if (grid.has_west(i)) neighbour(i - 1, j, row.west);
-  if (grid.has_north(j)) neighbour(i, j + 1, row.north);
-  if (grid.has_south(j)) neighbour(i, j - 1, row.south);
-  check_petsc(MatSetValuesStencil(a, 1, &cols[0], n, cols, vals, mode));
+/// Local: adds `row` to row (i, j) of a fill of a StencilMatrix (a fill starts from zeros, so
+/// a row written once is set); a neighbour across a non-periodic domain side is left out. Adding
+/// also covers a periodic direction of 2 cells, where the east and west neighbour are one cell.
+inline void write_row(const Grid& grid, StencilMatrix::Fill& fill, int i, int j, const MatrixRow& row) {
+  const size_t o = grid.owned(i, j);
+  fill.add(o, StencilSlot::centre, row.centre);
+  if (grid.has_east(i)) fill.add(o, StencilSlot::east, row.east);
+  if (grid.has_west(i)) fill.add(o, StencilSlot::west, row.west);
+  if (grid.has_north(j)) fill.add(o, StencilSlot::north, row.north);
+  if (grid.has_south(j)) fill.add(o, StencilSlot::south, row.south);
 }
 
 }  // namespace wallrans

@@ -1,9 +1,10 @@
-// Matrix rows land on the cell and its existing face neighbours: a row of 4 on the diagonal and -1
-// per neighbour, applied to the cells' global indices, gives 4 x_P minus the neighbours' indices;
-// across a periodic side the neighbour is the cell on the other side.
+// Matrix rows (written into a StencilMatrix) land on the cell and its existing face neighbours: a row of 4 on
+// the diagonal and -1 per neighbour, applied to the cells' global indices, gives 4 x_P minus the neighbours'
+// indices; across a periodic side the neighbour is the cell on the other side.
 #include <gtest/gtest.h>
 #include <petscdmda.h>
 
+#include "core/error.hpp"
 #include "discretization/matrix_row.hpp"
 #include "linear/petsc_handles.hpp"
 #include "meshes/node_coordinates.hpp"
@@ -20,18 +21,17 @@ void check_row_sums(bool periodic) {
   spec.length = 2.0;
   spec.first_cell_height = 0.05;
   Grid grid(MPI_COMM_WORLD, generate_nodes(spec), periodic);
-  OwnedMat a;
-  check_petsc(DMCreateMatrix(grid.dm(), a.out()));
+  StencilMatrix a(grid.dm());
+  StencilMatrix::Fill fill = a.begin_fill();
   for (int j = grid.y_begin(); j < grid.y_end(); ++j) {
     for (int i = grid.x_begin(); i < grid.x_end(); ++i) {
       MatrixRow row;
       row.centre = 4.0;
       row.east = row.west = row.north = row.south = -1.0;
-      write_row(grid, a.get(), i, j, row, INSERT_VALUES);
+      write_row(grid, fill, i, j, row);
     }
   }
-  check_petsc(MatAssemblyBegin(a.get(), MAT_FINAL_ASSEMBLY));
-  check_petsc(MatAssemblyEnd(a.get(), MAT_FINAL_ASSEMBLY));
+  fill.end();
   // x = global index of the cell: (A x)_P = 4 x_P - sum of the neighbours' indices.
   OwnedVec x, y;
   check_petsc(DMCreateGlobalVector(grid.dm(), x.out()));
@@ -41,7 +41,7 @@ void check_row_sums(bool periodic) {
   for (int j = grid.y_begin(); j < grid.y_end(); ++j)
     for (int i = grid.x_begin(); i < grid.x_end(); ++i) xa[j][i] = j * spec.cells_x + i;
   check_petsc(DMDAVecRestoreArray(grid.dm(), x.get(), &xa));
-  check_petsc(MatMult(a.get(), x.get(), y.get()));
+  check_petsc(MatMult(a.mat(), x.get(), y.get()));
   PetscScalar** ya = nullptr;
   check_petsc(DMDAVecGetArray(grid.dm(), y.get(), &ya));
   const int nx = spec.cells_x;
