@@ -1,4 +1,5 @@
-// Assembly and solution of a turbulence-model transport equation.
+// Assembly and solution of a turbulence-model transport equation, by faces: each interior face is
+// evaluated once, then every owned row gathers its faces.
 #include "models/scalar_transport.hpp"
 
 #include <petscdmda.h>
@@ -8,6 +9,7 @@
 
 #include "core/error.hpp"
 #include "discretization/convection.hpp"
+#include "discretization/matrix_row.hpp"
 
 namespace wallrans {
 
@@ -18,9 +20,11 @@ ScalarTransport::ScalarTransport(const Grid& grid, const BoundaryMap& boundaries
       faces_(owned_boundary_faces(grid, boundaries.faces())),
       cell_faces_(boundary_faces_by_cell(grid, faces_)),
       phi_b_(faces_.size(), 0.0),
-      grad_(grid) {
+      grad_(grid),
+      terms_e_(grid.n_ghosted()),
+      terms_n_(grid.n_ghosted()),
+      matrix_(grid.dm()) {
   lsq_ = std::make_unique<LeastSquaresGradient>(grid, faces_, [](const BoundaryFace&) { return true; });
-  check_petsc(DMCreateMatrix(grid.dm(), matrix_.out()));
   check_petsc(DMCreateGlobalVector(grid.dm(), rhs_.out()));
   check_petsc(DMCreateGlobalVector(grid.dm(), solution_.out()));
   check_petsc(KSPCreate(grid.comm(), ksp_.out()));
@@ -51,6 +55,31 @@ void ScalarTransport::gradient_of(const Field& phi, double wall_value, const Mea
   out.exchange();
 }
 
+void ScalarTransport::compute_face_terms(const MeanFlowView& flow, const ScalarEquation& eq) {
+  const Field& phi = *eq.phi;
+  const Field& gamma = *eq.gamma;
+  auto face_terms = [&](size_t l, size_t r, const FaceGeometry& face, double flux) {
+    const Vec2 xl = grid_.centre(l), xr = grid_.centre(r);
+    const double gamma_f = face.wl * gamma[l] + (1.0 - face.wl) * gamma[r];
+    const Vec2 gl = grad_[l], gr = grad_[r];
+    const double phi_f =
+        face_value(scheme_, flux, phi[l], phi[r], gl, gr, xl, xr, face.centre, face.wl, face.skew);
+    const double phi_upwind = flux >= 0.0 ? phi[l] : phi[r];
+    return FaceTerms{gamma_f * face.k, gamma_f * dot(face.cross, face.wl * gl + (1.0 - face.wl) * gr) -
+                                           flux * (phi_f - phi_upwind)};
+  };
+  for_each_interior_face(
+      grid_,
+      [&](int i, int j) {
+        const size_t l = grid_.local(i, j);
+        terms_e_[l] = face_terms(l, grid_.local(i + 1, j), grid_.east_face(i, j), flow.flux_east[l]);
+      },
+      [&](int i, int j) {
+        const size_t l = grid_.local(i, j);
+        terms_n_[l] = face_terms(l, grid_.local(i, j + 1), grid_.north_face(i, j), flow.flux_north[l]);
+      });
+}
+
 double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
   Field& phi = *eq.phi;
   const Field& gamma = *eq.gamma;
@@ -61,79 +90,44 @@ double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
 
   // flow.boundary_faces is owned_boundary_faces(grid) too, so faces_'s slots index it.
 
-  Mat a = matrix_.get();
-  check_petsc(MatZeroEntries(a));
+  StencilMatrix::Fill fill = matrix_.begin_fill();
   PetscScalar** b = nullptr;
   check_petsc(DMDAVecGetArray(grid_.dm(), rhs_.get(), &b));
   double residual = 0.0;
-  // Convection and diffusion through one interior face; returns the implicit coefficients and
-  // the explicit part of the balance of the left cell.
-  struct Face {
-    double diffusion, a_ll, a_lr, a_rr, a_rl, explicit_left;
-  };
-  auto face_terms = [&](int il, int jl, int ir, int jr, const FaceGeometry& geom, double flux) {
-    const Vec2 xl = grid_.centre(il, jl), xr = grid_.centre(ir, jr);
-    const InteriorFaceGeometry g = interior_face_geometry(xl, xr, geom.area, geom.centre);
-    const double gamma_f = g.wl * gamma(il, jl) + (1.0 - g.wl) * gamma(ir, jr);
-    const double diffusion = gamma_f * g.k;
-    const Vec2 gl = grad_(il, jl), gr = grad_(ir, jr);
-    const double phi_f =
-        face_value(scheme_, flux, phi(il, jl), phi(ir, jr), gl, gr, xl, xr, geom.centre, g.wl, g.skew);
-    const double phi_upwind = flux >= 0.0 ? phi(il, jl) : phi(ir, jr);
-    const double explicit_left =
-        gamma_f * dot(g.cross, g.wl * gl + (1.0 - g.wl) * gr) - flux * (phi_f - phi_upwind);
-    return Face{diffusion,
-                diffusion + std::max(flux, 0.0),
-                diffusion + std::max(-flux, 0.0),
-                diffusion + std::max(-flux, 0.0),
-                diffusion + std::max(flux, 0.0),
-                explicit_left};
-  };
+  compute_face_terms(flow, eq);
   for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
     for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
-      const double volume = grid_.volume(i, j);
-      MatStencil row{0, j, i, 0};
-      MatStencil cols[5];
-      double vals[5];
-      int n = 1;
-      cols[0] = row;
-      double diag = -eq.source_p->operator()(i, j) * volume;
+      const size_t c = grid_.local(i, j);
+      const double volume = grid_.volume(c);
+      MatrixRow row;
+      double diag = -(*eq.source_p)[c] * volume;
       double diffusive = 0.0;  // the diffusion share of diag
-      double rhs = eq.source_u->operator()(i, j) * volume;
+      double rhs = (*eq.source_u)[c] * volume;
       double off = 0.0;
-      auto neighbour = [&](int in, int jn, double coef) {
-        cols[n] = MatStencil{0, jn, in, 0};
-        vals[n++] = -coef;
-        off += coef * phi(in, jn);
+      // Upwind convection and the implicit diffusion: a_P gains the outflow, a_nb the inflow. This
+      // cell is the left cell of the face stored at c, or the right cell of the one stored at n.
+      auto as_left = [&](size_t n, const std::vector<FaceTerms>& terms, const Field& flux, double& entry) {
+        const FaceTerms& t = terms[c];
+        diag += t.diffusion + std::max(flux[c], 0.0);
+        diffusive += t.diffusion;
+        const double coef = t.diffusion + std::max(-flux[c], 0.0);
+        entry = -coef;
+        off += coef * phi[n];
+        rhs += t.explicit_left;
       };
-      if (grid_.has_east(i)) {
-        const Face t = face_terms(i, j, i + 1, j, grid_.east_face(i, j), flow.flux_east(i, j));
-        diag += t.a_ll;
+      auto as_right = [&](size_t n, const std::vector<FaceTerms>& terms, const Field& flux, double& entry) {
+        const FaceTerms& t = terms[n];
+        diag += t.diffusion + std::max(-flux[n], 0.0);
         diffusive += t.diffusion;
-        neighbour(i + 1, j, t.a_lr);
-        rhs += t.explicit_left;
-      }
-      if (grid_.has_west(i)) {
-        const Face t = face_terms(i - 1, j, i, j, grid_.east_face(i - 1, j), flow.flux_east(i - 1, j));
-        diag += t.a_rr;
-        diffusive += t.diffusion;
-        neighbour(i - 1, j, t.a_rl);
+        const double coef = t.diffusion + std::max(flux[n], 0.0);
+        entry = -coef;
+        off += coef * phi[n];
         rhs -= t.explicit_left;
-      }
-      if (grid_.has_north(j)) {
-        const Face t = face_terms(i, j, i, j + 1, grid_.north_face(i, j), flow.flux_north(i, j));
-        diag += t.a_ll;
-        diffusive += t.diffusion;
-        neighbour(i, j + 1, t.a_lr);
-        rhs += t.explicit_left;
-      }
-      if (grid_.has_south(j)) {
-        const Face t = face_terms(i, j - 1, i, j, grid_.north_face(i, j - 1), flow.flux_north(i, j - 1));
-        diag += t.a_rr;
-        diffusive += t.diffusion;
-        neighbour(i, j - 1, t.a_rl);
-        rhs -= t.explicit_left;
-      }
+      };
+      if (grid_.has_east(i)) as_left(grid_.local(i + 1, j), terms_e_, flow.flux_east, row.east);
+      if (grid_.has_west(i)) as_right(grid_.local(i - 1, j), terms_e_, flow.flux_east, row.west);
+      if (grid_.has_north(j)) as_left(grid_.local(i, j + 1), terms_n_, flow.flux_north, row.north);
+      if (grid_.has_south(j)) as_right(grid_.local(i, j - 1), terms_n_, flow.flux_north, row.south);
       for (int slot : cell_faces_[grid_.owned(i, j)]) {
         if (slot < 0) continue;
         const BoundaryFace& f = flow.boundary_faces[slot];
@@ -178,21 +172,20 @@ double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
       // 1 - s of the diffusion, as in the momentum equations (DEVELOPERS.md, Outer iteration).
       const double relaxation =
           (1.0 - eq.relax) / eq.relax * (diag - (1.0 - eq.relax_diffusive_part) * diffusive);
-      vals[0] = diag + relaxation;
+      row.centre = diag + relaxation;
       b[j][i] = rhs + relaxation * phi(i, j);
-      check_petsc(MatSetValuesStencil(a, 1, &row, n, cols, vals, INSERT_VALUES));
+      write_row(grid_, fill, i, j, row);
     }
   }
   check_petsc(DMDAVecRestoreArray(grid_.dm(), rhs_.get(), &b));
-  check_petsc(MatAssemblyBegin(a, MAT_FINAL_ASSEMBLY));
-  check_petsc(MatAssemblyEnd(a, MAT_FINAL_ASSEMBLY));
+  fill.end();
 
   PetscScalar** x = nullptr;
   check_petsc(DMDAVecGetArray(grid_.dm(), solution_.get(), &x));
   for (int j = grid_.y_begin(); j < grid_.y_end(); ++j)
     for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) x[j][i] = phi(i, j);
   check_petsc(DMDAVecRestoreArray(grid_.dm(), solution_.get(), &x));
-  check_petsc(KSPSetOperators(ksp_.get(), a, a));
+  check_petsc(KSPSetOperators(ksp_.get(), matrix_.mat(), matrix_.mat()));
   check_petsc(KSPSolve(ksp_.get(), rhs_.get(), solution_.get()));
   check_petsc(DMDAVecGetArray(grid_.dm(), solution_.get(), &x));
   for (int j = grid_.y_begin(); j < grid_.y_end(); ++j)

@@ -9,6 +9,7 @@
 
 #include "discretization/least_squares_gradient.hpp"
 #include "linear/petsc_handles.hpp"
+#include "linear/stencil_matrix.hpp"
 #include "models/turbulence_model.hpp"
 
 namespace wallrans {
@@ -46,7 +47,13 @@ class ScalarTransport {
   void gradient_of(const Field& phi, double wall_value, const MeanFlowView& flow, VectorField& out);
 
  private:
+  /// Convection and diffusion through one interior face: the diffusion coefficient and the
+  /// explicit part of the balance of the face's left cell.
+  struct FaceTerms {
+    double diffusion, explicit_left;
+  };
   void boundary_values(const MeanFlowView& flow, const Field& phi, double wall_value, double freestream);
+  void compute_face_terms(const MeanFlowView& flow, const ScalarEquation& equation);
   const Grid& grid_;
   ConvectionScheme scheme_;
   std::vector<BoundaryFace> faces_;
@@ -55,7 +62,8 @@ class ScalarTransport {
   std::vector<double> phi_b_;  // boundary values (faces_ order)
   std::function<double(Vec2)> boundary_function_;
   VectorField grad_;
-  OwnedMat matrix_;
+  std::vector<FaceTerms> terms_e_, terms_n_;  // every interior face of an owned cell, like the fluxes
+  StencilMatrix matrix_;
   OwnedVec rhs_, solution_;
   OwnedKsp ksp_;
 };

@@ -1,5 +1,6 @@
-// Outer iteration of the pressure-correction solver: set-up, flux prediction, pressure
-// correction and corrections. Momentum assembly is in momentum_assembly.cpp.
+// Outer iteration of the pressure-correction solver: set-up, gradients, linear solves, restart
+// state and wall data. Momentum assembly is in momentum_assembly.cpp, the pressure correction
+// (fluxes, p' equation, corrections) in pressure_correction.cpp.
 #include "coupling/flow_solver.hpp"
 
 #include <petscdmda.h>
@@ -51,6 +52,9 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
       v_b_(bfaces_.size(), 0.0),
       p_b_(bfaces_.size(), 0.0),
       zero_b_(bfaces_.size(), 0.0),
+      a_mom_(grid.dm()),
+      a_pc_(grid.dm()),
+      a_pc_setup_(grid.dm()),
       d_setup_(grid) {
   has_pressure_boundary_ = conditions_.has_fixed_pressure();
   // Global numbering of the wall faces: the wall faces in boundary-face id order.
@@ -60,6 +64,7 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
     if (condition(f).is_wall()) wall_of_face[f.id] = n_walls++;
   }
   wall_shear_.assign(static_cast<size_t>(n_walls), 0.0);
+  wall_shear_local_.assign(static_cast<size_t>(n_walls), 0.0);
   for (const auto& f : bfaces_) wall_id_.push_back(wall_of_face[f.id]);
   bflux_.assign(bfaces_.size(), 0.0);
   lsq_all_ = std::make_unique<LeastSquaresGradient>(grid, bfaces_, [](const BoundaryFace&) { return true; });
@@ -116,9 +121,6 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
   set_default_option("-pressure_pc_hypre_boomeramg_relax_type_all", "symmetric-SOR/Jacobi");
   set_default_option("-pressure_ksp_rtol", "1e-2");
   set_default_option("-pressure_ksp_max_it", "500");
-  check_petsc(DMCreateMatrix(grid.dm(), a_mom_.out()));
-  check_petsc(DMCreateMatrix(grid.dm(), a_pc_.out()));
-  check_petsc(DMCreateMatrix(grid.dm(), a_pc_setup_.out()));
   check_petsc(DMCreateGlobalVector(grid.dm(), b_vec_.out()));
   check_petsc(DMCreateGlobalVector(grid.dm(), x_vec_.out()));
   check_petsc(KSPCreate(grid.comm(), ksp_mom_.out()));
@@ -134,12 +136,18 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
   if (!has_pressure_boundary_) {
     // Closed or periodic domain: p' is defined up to a constant (NUMERICS: constant null space).
     check_petsc(MatNullSpaceCreate(grid.comm(), PETSC_TRUE, 0, nullptr, null_space_.out()));
-    check_petsc(MatSetNullSpace(a_pc_.get(), null_space_.get()));
-    check_petsc(MatSetNullSpace(a_pc_setup_.get(), null_space_.get()));
+    check_petsc(MatSetNullSpace(a_pc_.mat(), null_space_.get()));
+    check_petsc(MatSetNullSpace(a_pc_setup_.mat(), null_space_.get()));
   }
   rhs_u_.assign(grid.n_owned(), 0.0);
   rhs_v_.assign(grid.n_owned(), 0.0);
-  diag_.assign(grid.n_owned(), 0.0);
+  terms_e_.assign(grid.n_ghosted(), FaceTerms{});
+  terms_n_.assign(grid.n_ghosted(), FaceTerms{});
+  for (PressureCoefficients* c : {&coefficients_, &setup_coefficients_}) {
+    c->east = Field(grid);
+    c->north = Field(grid);
+    c->boundary.assign(bfaces_.size(), 0.0);
+  }
 }
 
 void FlowSolver::update_velocity_boundary_values() {
@@ -151,6 +159,15 @@ void FlowSolver::update_velocity_boundary_values() {
     u_b_[k] = value.x;
     v_b_[k] = value.y;
   }
+}
+
+void FlowSolver::update_velocity_gradients() {
+  update_velocity_boundary_values();
+  lsq_all_->compute(vel_.x, u_b_, grad_u_);
+  lsq_all_->compute(vel_.y, v_b_, grad_v_);
+  grad_u_.exchange();
+  grad_v_.exchange();
+  velocity_gradients_current_ = true;
 }
 
 void FlowSolver::update_pressure_gradient_and_boundary_values() {
@@ -198,11 +215,9 @@ IterationStatus FlowSolver::iterate() {
     nu_eff_.data()[k] = spec_.flow.kinematic_viscosity + nut.data()[k];
 
   phase.emplace(stages_.correction_gradients);
-  update_velocity_boundary_values();
-  lsq_all_->compute(vel_.x, u_b_, grad_u_);
-  lsq_all_->compute(vel_.y, v_b_, grad_v_);
-  grad_u_.exchange();
-  grad_v_.exchange();
+  // The velocity gradients were refreshed after the last correction; only the first iteration
+  // (also after a restart or a new boundary function) computes them here.
+  if (!velocity_gradients_current_) update_velocity_gradients();
   update_pressure_gradient_and_boundary_values();
 
   phase.emplace(stages_.momentum_assembly);
@@ -214,9 +229,11 @@ IterationStatus FlowSolver::iterate() {
   assemble_and_solve_pressure_correction(status);
   phase.emplace(stages_.correction_gradients);
   correct();
+  // The wall shear and the model see the gradients of the corrected velocity, and the next
+  // momentum assembly uses them as they are.
+  update_velocity_gradients();
 
   phase.emplace(stages_.monitors);
-  update_velocity_boundary_values();
   refresh_wall_shear();
   phase.emplace(stages_.turbulence);
   model_.update(view());
@@ -265,6 +282,7 @@ SolverRestartState FlowSolver::restart_state() {
 void FlowSolver::restarted() {
   d_setup_.exchange();
   preconditioner_ready_ = false;
+  velocity_gradients_current_ = false;  // recomputed from the restored velocity and boundary fluxes
   vel_.exchange();
   p_.exchange();
   grad_p_.exchange();
@@ -280,12 +298,10 @@ MeanFlowView FlowSolver::view() const {
 
 void FlowSolver::refresh_wall_shear() {
   // Each rank fills its own wall faces; the sum over ranks assembles the whole list.
-  std::vector<double> local(wall_shear_.size(), 0.0);
-  const auto samples = wall_samples();
-  size_t s = 0;
+  std::vector<double>& local = wall_shear_local_;
+  std::fill(local.begin(), local.end(), 0.0);
   for (size_t k = 0; k < bfaces_.size(); ++k) {
-    if (wall_id_[k] < 0) continue;
-    local[wall_id_[k]] = std::abs(samples[s++].shear_stress);
+    if (wall_id_[k] >= 0) local[wall_id_[k]] = std::abs(wall_shear_stress(k));
   }
   if (!local.empty()) {
     check_mpi(MPI_Allreduce(local.data(), wall_shear_.data(), static_cast<int>(local.size()), MPI_DOUBLE,
@@ -322,7 +338,7 @@ void FlowSolver::solve_linear(KSP ksp, Vec rhs, Field& solution, int& iterations
 }
 
 void FlowSolver::solve_momentum(IterationStatus& status) {
-  check_petsc(KSPSetOperators(ksp_mom_.get(), a_mom_.get(), a_mom_.get()));
+  check_petsc(KSPSetOperators(ksp_mom_.get(), a_mom_.mat(), a_mom_.mat()));
   for (int component = 0; component < 2; ++component) {
     const auto& rhs = component == 0 ? rhs_u_ : rhs_v_;
     PetscScalar** b = nullptr;
@@ -340,206 +356,20 @@ void FlowSolver::solve_momentum(IterationStatus& status) {
   memory_.exchange();
 }
 
-double FlowSolver::interior_flux(int il, int jl, int ir, int jr, const FaceGeometry& face,
-                                 double flux_old) const {
-  const Vec2 xl = grid_.centre(il, jl), xr = grid_.centre(ir, jr);
-  const Vec2 d = xr - xl;
-  const double wl = dot(xr - face.centre, d) / dot(d, d);
-  const Vec2 xm = xl + (1.0 - wl) * d;  // projection of the face centre on the line L-R
-  const Vec2 skew = face.centre - xm;
-  auto interp = [&](const VectorField& vel) {
-    const Vec2 gu = wl * grad_u_(il, jl) + (1.0 - wl) * grad_u_(ir, jr);
-    const Vec2 gv = wl * grad_v_(il, jl) + (1.0 - wl) * grad_v_(ir, jr);
-    const Vec2 mean = wl * vel(il, jl) + (1.0 - wl) * vel(ir, jr);
-    return Vec2{mean.x + dot(gu, skew), mean.y + dot(gv, skew)};
-  };
-  const double k = dot(face.area, face.area) / dot(face.area, d);
-  // Relaxation-consistent Rhie-Chow (Majumdar 1988), generalised to a relaxation share m = r / (a_P
-  // + r) that varies from cell to cell: F = S.u_bar + (1 - m_f) (V/a_P)_f k (grad p_bar . d - dp)
-  // + m_f (F_old - S.u_bar_old). At convergence (F = F_old) the m_f terms cancel exactly, so
-  // the answer does not depend on the relaxation.
-  const double m_face = wl * memory_(il, jl) + (1.0 - wl) * memory_(ir, jr);
-  const double d_face = (1.0 - m_face) * (wl * d_rc_(il, jl) + (1.0 - wl) * d_rc_(ir, jr));
-  const Vec2 gp = wl * grad_p_(il, jl) + (1.0 - wl) * grad_p_(ir, jr);
-  const double memory = m_face * (flux_old - dot(interp(vel_old_), face.area));
-  return dot(interp(vel_), face.area) + d_face * k * (dot(gp, d) - (p_(ir, jr) - p_(il, jl))) + memory;
-}
-
-void FlowSolver::predict_fluxes() {
-  for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
-    for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
-      if (grid_.has_east(i))
-        flux_e_(i, j) = interior_flux(i, j, i + 1, j, grid_.east_face(i, j), flux_e_old_(i, j));
-      if (grid_.has_north(j))
-        flux_n_(i, j) = interior_flux(i, j, i, j + 1, grid_.north_face(i, j), flux_n_old_(i, j));
-    }
-  }
-  for (size_t k = 0; k < bfaces_.size(); ++k) {
-    const BoundaryFace& f = bfaces_[k];
-    double& flux = bflux_[k];
-    switch (condition(f).flux_prediction()) {
-      case FluxPrediction::zero:
-        flux = 0.0;
-        break;
-      case FluxPrediction::prescribed:
-        flux =
-            boundary_flux_fn_ ? boundary_flux_fn_(f.centre, f.area) : u_b_[k] * f.area.x + v_b_[k] * f.area.y;
-        break;
-      case FluxPrediction::rhie_chow: {
-        // Rhie-Chow between the owner cell and the face, with the boundary pressure p_b.
-        const Vec2 xp = grid_.centre(f.i, f.j);
-        const Vec2 d = f.centre - xp;
-        const double kf = dot(f.area, f.area) / dot(f.area, d);
-        const double m = memory_(f.i, f.j);
-        const double memory = m * (bflux_old_[k] - dot(vel_old_(f.i, f.j), f.area));
-        flux = dot(vel_(f.i, f.j), f.area) +
-               (1.0 - m) * d_rc_(f.i, f.j) * kf * (dot(grad_p_(f.i, f.j), d) - (p_b_[k] - p_(f.i, f.j))) +
-               memory;
-        break;
-      }
-    }
-  }
-  flux_e_.exchange();
-  flux_n_.exchange();
-}
-
-double FlowSolver::pressure_coefficient(const Field& d_corr, int il, int jl, int ir, int jr,
-                                        const FaceGeometry& face) const {
-  // A_f = d_f |S|^2 / (S . d): the face-flux response to the p' difference across the face.
-  const Vec2 d = grid_.centre(ir, jr) - grid_.centre(il, jl);
-  const double wl = dot(grid_.centre(ir, jr) - face.centre, d) / dot(d, d);
-  const double dc = wl * d_corr(il, jl) + (1.0 - wl) * d_corr(ir, jr);
-  return dc * dot(face.area, face.area) / dot(face.area, d);
-}
-
-void FlowSolver::assemble_pressure_matrix(const Field& d, Mat a) const {
-  check_petsc(MatZeroEntries(a));
-  for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
-    for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
-      MatStencil row{0, j, i, 0};
-      MatStencil cols[5];
-      double vals[5];
-      int n = 1;
-      cols[0] = row;
-      vals[0] = 0.0;
-      auto add = [&](int in, int jn, double coef) {
-        vals[0] += coef;
-        cols[n] = MatStencil{0, jn, in, 0};
-        vals[n++] = -coef;
-      };
-      if (grid_.has_east(i)) add(i + 1, j, pressure_coefficient(d, i, j, i + 1, j, grid_.east_face(i, j)));
-      if (grid_.has_west(i))
-        add(i - 1, j, pressure_coefficient(d, i - 1, j, i, j, grid_.east_face(i - 1, j)));
-      if (grid_.has_north(j)) add(i, j + 1, pressure_coefficient(d, i, j, i, j + 1, grid_.north_face(i, j)));
-      if (grid_.has_south(j))
-        add(i, j - 1, pressure_coefficient(d, i, j - 1, i, j, grid_.north_face(i, j - 1)));
-      check_petsc(MatSetValuesStencil(a, 1, &row, n, cols, vals, ADD_VALUES));
-    }
-  }
-  for (const auto& f : bfaces_) {
-    if (!is_pressure_boundary(f)) continue;
-    const Vec2 r = f.centre - grid_.centre(f.i, f.j);
-    const double coef = d(f.i, f.j) * dot(f.area, f.area) / dot(f.area, r);
-    MatStencil row{0, f.j, f.i, 0};
-    check_petsc(MatSetValuesStencil(a, 1, &row, 1, &row, &coef, ADD_VALUES));
-  }
-  check_petsc(MatAssemblyBegin(a, MAT_FINAL_ASSEMBLY));
-  check_petsc(MatAssemblyEnd(a, MAT_FINAL_ASSEMBLY));
-}
-
-void FlowSolver::assemble_and_solve_pressure_correction(IterationStatus& status) {
-  PetscScalar** b = nullptr;
-  check_petsc(DMDAVecGetArray(grid_.dm(), b_vec_.get(), &b));
-  double imbalance = 0.0, imbalance_per_cell = 0.0;
-  const double u_ref = spec_.flow.reference_velocity;
-  for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
-    for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
-      double net_out = 0.0;
-      if (grid_.has_east(i)) net_out += flux_e_(i, j);
-      if (grid_.has_north(j)) net_out += flux_n_(i, j);
-      if (grid_.has_west(i)) net_out -= flux_e_(i - 1, j);
-      if (grid_.has_south(j)) net_out -= flux_n_(i, j - 1);
-      for (int slot : cell_faces_[grid_.owned(i, j)]) {
-        if (slot >= 0) net_out += bflux_[slot];  // stored outward: out of the domain and this cell
-      }
-      b[j][i] = -net_out;
-      imbalance += std::abs(net_out);
-      // The cell's imbalance relative to the flux U_ref carries through half its faces.
-      const double half_perimeter =
-          0.5 * (norm(grid_.east_face(i, j).area) + norm(grid_.east_face(i - 1, j).area) +
-                 norm(grid_.north_face(i, j).area) + norm(grid_.north_face(i, j - 1).area));
-      imbalance_per_cell += std::abs(net_out) / (u_ref * half_perimeter);
-    }
-  }
-  check_petsc(DMDAVecRestoreArray(grid_.dm(), b_vec_.get(), &b));
-  assemble_pressure_matrix(d_corr_, a_pc_.get());
-  status.absolute.continuity = grid_.global_sum(imbalance);
-  continuity_per_cell_ =
-      grid_.global_sum(imbalance_per_cell) / (static_cast<double>(grid_.cells_x()) * grid_.cells_y());
-  if (null_space_) check_petsc(MatNullSpaceRemove(null_space_.get(), b_vec_.get()));
-  const ScopedLogStage solve_stage(stages_.pressure_solve);
-  // The preconditioner (algebraic multigrid, the costliest set-up of an iteration) is rebuilt
-  // every pressure_setup_every iterations from that iteration's matrix and reused in between.
-  // The cadence is keyed to the iteration number and the coefficients it was built from are part
-  // of the restart state, so a restarted run rebuilds the very same preconditioner.
-  const bool on_cadence = (iteration_ - 1) % spec_.iterations.pressure_setup_every == 0;
-  if (on_cadence) d_setup_ = d_corr_;
-  const bool set_up = on_cadence || !preconditioner_ready_;
-  if (set_up) assemble_pressure_matrix(d_setup_, a_pc_setup_.get());
-  check_petsc(KSPSetReusePreconditioner(ksp_pc_.get(), set_up ? PETSC_FALSE : PETSC_TRUE));
-  check_petsc(KSPSetOperators(ksp_pc_.get(), a_pc_.get(), a_pc_setup_.get()));
-  preconditioner_ready_ = true;
-  std::fill(pc_.data().begin(), pc_.data().end(), 0.0);
-  solve_linear(ksp_pc_.get(), b_vec_.get(), pc_, status.pressure_iterations, status.linear_solves_converged);
-  pc_.exchange();
-}
-
-void FlowSolver::correct() {
-  // Flux corrections F' = -A_f (p'_R - p'_L) keep every cell's mass balance to solver tolerance.
-  for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
-    for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
-      if (grid_.has_east(i))
-        flux_e_(i, j) -= pressure_coefficient(d_corr_, i, j, i + 1, j, grid_.east_face(i, j)) *
-                         (pc_(i + 1, j) - pc_(i, j));
-      if (grid_.has_north(j))
-        flux_n_(i, j) -= pressure_coefficient(d_corr_, i, j, i, j + 1, grid_.north_face(i, j)) *
-                         (pc_(i, j + 1) - pc_(i, j));
-    }
-  }
-  for (size_t k = 0; k < bfaces_.size(); ++k) {
-    const BoundaryFace& f = bfaces_[k];
-    if (!is_pressure_boundary(f)) continue;
-    const Vec2 d = f.centre - grid_.centre(f.i, f.j);
-    bflux_[k] += d_corr_(f.i, f.j) * dot(f.area, f.area) / dot(f.area, d) * pc_(f.i, f.j);
-  }
-  lsq_pressure_->compute(pc_, zero_b_, grad_pc_);
-  const double alpha_p = spec_.iterations.relax_pressure;
-  double p_sum = 0.0, volume = 0.0;
-  for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
-    for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
-      const Vec2 g = grad_pc_(i, j);
-      vel_.x(i, j) -= d_corr_(i, j) * g.x;
-      vel_.y(i, j) -= d_corr_(i, j) * g.y;
-      p_(i, j) += alpha_p * pc_(i, j);
-      p_sum += p_(i, j) * grid_.volume(i, j);
-      volume += grid_.volume(i, j);
-    }
-  }
-  if (!has_pressure_boundary_) {
-    // Pressure level of a closed/periodic domain: zero volume-weighted mean.
-    const double mean = grid_.global_sum(p_sum) / grid_.global_sum(volume);
-    for (int j = grid_.y_begin(); j < grid_.y_end(); ++j)
-      for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) p_(i, j) -= mean;
-  }
-  vel_.exchange();
-  p_.exchange();
-  flux_e_.exchange();
-  flux_n_.exchange();
-}
-
 }  // namespace wallrans
 
 namespace wallrans {
+
+double FlowSolver::wall_shear_stress(size_t k) const {
+  const BoundaryFace& f = bfaces_[k];
+  const Vec2 n = (1.0 / norm(f.area)) * f.area;
+  Vec2 t{-n.y, n.x};
+  if (t.x < 0.0 || (t.x == 0.0 && t.y < 0.0)) t = -1.0 * t;
+  // Velocity derivative into the fluid, second order (see normal_derivative).
+  const double du = -normal_derivative(vel_.x, grad_u_, u_b_[k], f);
+  const double dv = -normal_derivative(vel_.y, grad_v_, v_b_[k], f);
+  return spec_.flow.kinematic_viscosity * (du * t.x + dv * t.y);
+}
 
 std::vector<WallSample> FlowSolver::wall_samples() const {
   std::vector<WallSample> out;
@@ -548,12 +378,7 @@ std::vector<WallSample> FlowSolver::wall_samples() const {
     const BoundaryFace& f = bfaces_[k];
     if (!condition(f).is_wall()) continue;
     const Vec2 n = (1.0 / norm(f.area)) * f.area;
-    Vec2 t{-n.y, n.x};
-    if (t.x < 0.0 || (t.x == 0.0 && t.y < 0.0)) t = -1.0 * t;
-    // Velocity derivative into the fluid, second order (see normal_derivative).
-    const double du = -normal_derivative(vel_.x, grad_u_, u_b_[k], f);
-    const double dv = -normal_derivative(vel_.y, grad_v_, v_b_[k], f);
-    const double tau = spec_.flow.kinematic_viscosity * (du * t.x + dv * t.y);
+    const double tau = wall_shear_stress(k);
     const double s1 = dot(f.centre - grid_.centre(f.i, f.j), n);
     out.push_back({f.side, f.index, f.centre, tau, tau / dynamic,
                    (p_b_[k] - spec_.flow.reference_pressure) / dynamic, s1});

@@ -14,6 +14,7 @@
 #include "grid/boundary_faces.hpp"
 #include "grid/grid.hpp"
 #include "linear/petsc_handles.hpp"
+#include "linear/stencil_matrix.hpp"
 #include "models/turbulence_model.hpp"
 
 namespace wallrans {
@@ -67,7 +68,10 @@ class FlowSolver {
   /// Extra momentum source per unit mass s(x) [m/s^2] (manufactured solutions).
   void set_momentum_source(std::function<Vec2(Vec2)> source) { source_ = std::move(source); }
   /// Replaces the velocity of wall and inflow segments by a function of position.
-  void set_boundary_velocity(std::function<Vec2(Vec2)> velocity) { boundary_velocity_ = std::move(velocity); }
+  void set_boundary_velocity(std::function<Vec2(Vec2)> velocity) {
+    boundary_velocity_ = std::move(velocity);
+    velocity_gradients_current_ = false;
+  }
   /// Replaces the volume flux through wall/inflow faces by f(centre, outward area) [m^2/s], e.g.
   /// the exact integral of a manufactured velocity, so that the boundary fluxes of a closed
   /// domain sum to zero exactly.
@@ -81,6 +85,7 @@ class FlowSolver {
   const VectorField& velocity() const { return vel_; }
   const Field& pressure() const { return p_; }
   const Field& eddy_viscosity() const { return model_.eddy_viscosity(); }
+  /// Gradients of the current velocity components (refreshed after each correction).
   const VectorField& grad_u() const { return grad_u_; }
   const VectorField& grad_v() const { return grad_v_; }
   const Grid& grid() const { return grid_; }
@@ -100,19 +105,31 @@ class FlowSolver {
   void restarted();
 
  private:
-  struct FaceTerms;
+  /// Momentum terms of one interior face.
+  struct FaceTerms {
+    double diffusion;   ///< implicit diffusion coefficient nu_f |S|^2 / (S . d)
+    double explicit_u;  ///< explicit part of the flux balance of the left cell, u equation
+    double explicit_v;
+  };
+  /// Coefficients A_f of the pressure-correction equation: interior faces (stored at the lower
+  /// cell like the fluxes) and fixed-pressure boundary faces (bfaces_ order, zero elsewhere).
+  struct PressureCoefficients {
+    Field east, north;
+    std::vector<double> boundary;
+  };
   void update_velocity_boundary_values();
+  void update_velocity_gradients();
   void update_pressure_gradient_and_boundary_values();
   void assemble_momentum(ResidualNorms& residual);
   void solve_momentum(IterationStatus& status);
   void predict_fluxes();
   void assemble_and_solve_pressure_correction(IterationStatus& status);
   void correct();
-  FaceTerms interior_face_terms(int il, int jl, int ir, int jr, const FaceGeometry& face, double flux) const;
-  double pressure_coefficient(const Field& d_corr, int il, int jl, int ir, int jr,
-                              const FaceGeometry& face) const;
-  void assemble_pressure_matrix(const Field& d_corr, Mat a) const;
-  double interior_flux(int il, int jl, int ir, int jr, const FaceGeometry& face, double flux_old) const;
+  FaceTerms interior_face_terms(size_t l, size_t r, const FaceGeometry& face, double flux) const;
+  void compute_face_terms();
+  void pressure_coefficients(const Field& d, PressureCoefficients& out) const;
+  void assemble_pressure_matrix(const PressureCoefficients& coefficients, StencilMatrix& a) const;
+  double interior_flux(size_t l, size_t r, const FaceGeometry& face, double flux_old) const;
   double normal_derivative(const Field& phi, const VectorField& grad, double phi_b,
                            const BoundaryFace& face) const;
   const BoundaryCondition& condition(const BoundaryFace& face) const { return conditions_.of(face); }
@@ -131,13 +148,17 @@ class FlowSolver {
   std::function<Vec2(Vec2)> source_, boundary_velocity_;
   std::function<double(Vec2, Vec2)> boundary_flux_fn_;
   void refresh_wall_shear();
+  /// Local: nu dU_t/dn at owned boundary face k (a wall), sign as in WallSample.
+  double wall_shear_stress(size_t k) const;
   MeanFlowView view() const;
   bool has_pressure_boundary_ = false;
   std::vector<double> bflux_, bflux_old_;  // outward flux of each owned boundary face (bfaces_ order)
-  std::vector<int> wall_id_;        // global wall-face id of each owned boundary face, -1 if not a wall
-  std::vector<double> wall_shear_;  // |tau_w| per global wall face
+  std::vector<int> wall_id_;              // global wall-face id of each owned boundary face, -1 if not a wall
+  std::vector<double> wall_shear_;        // |tau_w| per global wall face
+  std::vector<double> wall_shear_local_;  // this rank's part of wall_shear_ before the sum
   int iteration_ = 0;
-  double continuity_per_cell_ = 0.0;  // mean relative mass imbalance of the last iteration
+  bool velocity_gradients_current_ = false;  // grad_u_, grad_v_ belong to vel_ and u_b_, v_b_
+  double continuity_per_cell_ = 0.0;         // mean relative mass imbalance of the last iteration
 
   VectorField vel_, vel_old_, grad_u_, grad_v_, grad_p_, grad_pc_;
   // Interior-face fluxes: flux_e_(i, j) through the face between (i, j) and (i + 1, j),
@@ -145,10 +166,14 @@ class FlowSolver {
   Field p_, pc_, nu_eff_, d_rc_, d_corr_, memory_, flux_e_, flux_n_, flux_e_old_, flux_n_old_;
   std::vector<double> u_b_, v_b_, p_b_, zero_b_;  // boundary values (bfaces_ order)
   std::unique_ptr<LeastSquaresGradient> lsq_all_, lsq_pressure_;
-  std::vector<double> rhs_u_, rhs_v_, diag_;  // owned order
+  std::vector<double> rhs_u_, rhs_v_;  // owned order
+  // Momentum terms of every interior face of an owned cell, indexed like the fluxes.
+  std::vector<FaceTerms> terms_e_, terms_n_;
+  PressureCoefficients coefficients_, setup_coefficients_;
 
-  OwnedMat a_mom_, a_pc_, a_pc_setup_;  // a_pc_setup_: the matrix the pressure preconditioner was built from
-  Field d_setup_;                       // SIMPLEC d of the last preconditioner set-up (restart state)
+  StencilMatrix a_mom_, a_pc_,
+      a_pc_setup_;  // a_pc_setup_: the matrix the pressure preconditioner was built from
+  Field d_setup_;   // SIMPLEC d of the last preconditioner set-up (restart state)
   bool preconditioner_ready_ = false;
   OwnedVec b_vec_, x_vec_;
   OwnedKsp ksp_mom_, ksp_pc_;

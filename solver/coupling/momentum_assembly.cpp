@@ -1,6 +1,7 @@
 // Momentum predictor: implicit first-order upwind convection and orthogonal diffusion, with
 // deferred corrections (explicit) for the second-order convection scheme, the non-orthogonal
-// diffusion part and the second-order wall gradient.
+// diffusion part and the second-order wall gradient. Assembled by faces: each interior face is
+// evaluated once, then every owned row gathers its faces.
 #include <petscdmda.h>
 
 #include <algorithm>
@@ -9,41 +10,34 @@
 #include "core/error.hpp"
 #include "coupling/flow_solver.hpp"
 #include "discretization/convection.hpp"
+#include "discretization/matrix_row.hpp"
 
 namespace wallrans {
 
-struct FlowSolver::FaceTerms {
-  double diffusion;   ///< implicit diffusion coefficient nu_f |S|^2 / (S . d)
-  double explicit_u;  ///< explicit part of the flux balance of the left cell, u equation
-  double explicit_v;
-};
-
-FlowSolver::FaceTerms FlowSolver::interior_face_terms(int il, int jl, int ir, int jr,
-                                                      const FaceGeometry& face, double flux) const {
-  const Vec2 xl = grid_.centre(il, jl), xr = grid_.centre(ir, jr);
-  const InteriorFaceGeometry g = interior_face_geometry(xl, xr, face.area, face.centre);
-  const double wl = g.wl;
-  const double nu_f = wl * nu_eff_(il, jl) + (1.0 - wl) * nu_eff_(ir, jr);
+FlowSolver::FaceTerms FlowSolver::interior_face_terms(size_t l, size_t r, const FaceGeometry& face,
+                                                      double flux) const {
+  const Vec2 xl = grid_.centre(l), xr = grid_.centre(r);
+  const double wl = face.wl, wr = 1.0 - wl;
+  const double nu_f = wl * nu_eff_[l] + wr * nu_eff_[r];
   const ConvectionScheme scheme = spec_.iterations.convection;
+  const Vec2 gu = wl * grad_u_[l] + wr * grad_u_[r];  // face gradients
+  const Vec2 gv = wl * grad_v_[l] + wr * grad_v_[r];
   // Over-relaxed split of the diffusive flux: implicit along L-R, the rest explicit with the
   // interpolated cell gradient (Jasak 1996, sec. 3.3.1.3).
-  auto terms = [&](const Field& phi, const VectorField& grad) {
-    const Vec2 gl = grad(il, jl), gr = grad(ir, jr);
+  auto terms = [&](const Field& phi, const VectorField& grad, Vec2 grad_face) {
     const double phi_f =
-        face_value(scheme, flux, phi(il, jl), phi(ir, jr), gl, gr, xl, xr, face.centre, wl, g.skew);
-    const double phi_upwind = flux >= 0.0 ? phi(il, jl) : phi(ir, jr);
+        face_value(scheme, flux, phi[l], phi[r], grad[l], grad[r], xl, xr, face.centre, wl, face.skew);
+    const double phi_upwind = flux >= 0.0 ? phi[l] : phi[r];
     const double convection_correction = flux * (phi_f - phi_upwind);
-    const double cross_diffusion = nu_f * dot(g.cross, wl * gl + (1.0 - wl) * gr);
+    const double cross_diffusion = nu_f * dot(face.cross, grad_face);
     return cross_diffusion - convection_correction;
   };
-  FaceTerms t{nu_f * g.k, terms(vel_.x, grad_u_), terms(vel_.y, grad_v_)};
+  FaceTerms t{nu_f * face.k, terms(vel_.x, grad_u_, gu), terms(vel_.y, grad_v_, gv)};
   // Eddy-viscosity part of the transposed stress, nu_t (grad u)^T . S (explicit; it vanishes for
   // constant viscosity by continuity).
   const double nu = spec_.flow.kinematic_viscosity;
-  const double nut_f = wl * (nu_eff_(il, jl) - nu) + (1.0 - wl) * (nu_eff_(ir, jr) - nu);
+  const double nut_f = wl * (nu_eff_[l] - nu) + wr * (nu_eff_[r] - nu);
   if (nut_f != 0.0) {
-    const Vec2 gu = wl * grad_u_(il, jl) + (1.0 - wl) * grad_u_(ir, jr);
-    const Vec2 gv = wl * grad_v_(il, jl) + (1.0 - wl) * grad_v_(ir, jr);
     t.explicit_u += nut_f * (gu.x * face.area.x + gv.x * face.area.y);
     t.explicit_v += nut_f * (gu.y * face.area.x + gv.y * face.area.y);
   }
@@ -75,28 +69,38 @@ double FlowSolver::normal_derivative(const Field& phi, const VectorField& grad, 
   return (phi_b - v1) / s1;
 }
 
+void FlowSolver::compute_face_terms() {
+  for_each_interior_face(
+      grid_,
+      [&](int i, int j) {
+        const size_t l = grid_.local(i, j);
+        terms_e_[l] = interior_face_terms(l, grid_.local(i + 1, j), grid_.east_face(i, j), flux_e_[l]);
+      },
+      [&](int i, int j) {
+        const size_t l = grid_.local(i, j);
+        terms_n_[l] = interior_face_terms(l, grid_.local(i, j + 1), grid_.north_face(i, j), flux_n_[l]);
+      });
+}
+
 void FlowSolver::assemble_momentum(ResidualNorms& residual) {
-  Mat a = a_mom_.get();
-  check_petsc(MatZeroEntries(a));
+  StencilMatrix::Fill fill = a_mom_.begin_fill();
   const double alpha = spec_.iterations.relax_velocity;
   const double share = spec_.iterations.relax_diffusive_part;
   const double nu = spec_.flow.kinematic_viscosity;
   Vec2 body = spec_.flow.body_force;
   if (spec_.periodic.axis == PeriodicAxis::x) body.x -= spec_.periodic.mean_pressure_gradient;
+  const bool is_simplec = spec_.iterations.coupling == Coupling::simplec;
+  compute_face_terms();
 
   double res_u = 0.0, res_v = 0.0;
   for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
     for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
-      const size_t o = grid_.owned(i, j);
-      const double volume = grid_.volume(i, j);
-      const Vec2 xp = grid_.centre(i, j);
-      MatStencil row{0, j, i, 0};
-      MatStencil cols[5];
-      double vals[5];
-      int n = 1;
-      cols[0] = row;
+      const size_t o = grid_.owned(i, j), c = grid_.local(i, j);
+      const double volume = grid_.volume(c);
+      const Vec2 xp = grid_.centre(c);
+      MatrixRow row;
       double diag = 0.0, sum_nb = 0.0, diffusive = 0.0;  // diffusive: the diffusion share of diag
-      const Vec2 gp = grad_p_(i, j);
+      const Vec2 gp = grad_p_[c];
       double bu = volume * (body.x - gp.x), bv = volume * (body.y - gp.y);
       if (source_) {
         const Vec2 s = source_(xp);
@@ -104,33 +108,35 @@ void FlowSolver::assemble_momentum(ResidualNorms& residual) {
         bv += volume * s.y;
       }
       double off_u = 0.0, off_v = 0.0;  // sum a_nb phi_nb for the residual
-      auto neighbour = [&](int in, int jn, double coef) {
-        cols[n] = MatStencil{0, jn, in, 0};
-        vals[n++] = -coef;
+      // The neighbour's coefficient a_nb enters the row as -a_nb.
+      auto neighbour = [&](size_t n, double coef, double& entry) {
+        entry = -coef;
         sum_nb += coef;
-        off_u += coef * vel_.x(in, jn);
-        off_v += coef * vel_.y(in, jn);
+        off_u += coef * vel_.x[n];
+        off_v += coef * vel_.y[n];
       };
-      auto as_left = [&](int ir, int jr, const FaceGeometry& face, double flux) {
-        const FaceTerms t = interior_face_terms(i, j, ir, jr, face, flux);
-        diag += t.diffusion + std::max(flux, 0.0);
+      // This cell is the left (lower-index) cell of a face, stored at index c like its flux, or the
+      // right cell of the face stored at its neighbour n.
+      auto as_left = [&](size_t n, const std::vector<FaceTerms>& terms, const Field& flux, double& entry) {
+        const FaceTerms& t = terms[c];
+        diag += t.diffusion + std::max(flux[c], 0.0);
         diffusive += t.diffusion;
-        neighbour(ir, jr, t.diffusion + std::max(-flux, 0.0));
+        neighbour(n, t.diffusion + std::max(-flux[c], 0.0), entry);
         bu += t.explicit_u;
         bv += t.explicit_v;
       };
-      auto as_right = [&](int il, int jl, const FaceGeometry& face, double flux) {
-        const FaceTerms t = interior_face_terms(il, jl, i, j, face, flux);
-        diag += t.diffusion + std::max(-flux, 0.0);
+      auto as_right = [&](size_t n, const std::vector<FaceTerms>& terms, const Field& flux, double& entry) {
+        const FaceTerms& t = terms[n];
+        diag += t.diffusion + std::max(-flux[n], 0.0);
         diffusive += t.diffusion;
-        neighbour(il, jl, t.diffusion + std::max(flux, 0.0));
+        neighbour(n, t.diffusion + std::max(flux[n], 0.0), entry);
         bu -= t.explicit_u;
         bv -= t.explicit_v;
       };
-      if (grid_.has_east(i)) as_left(i + 1, j, grid_.east_face(i, j), flux_e_(i, j));
-      if (grid_.has_west(i)) as_right(i - 1, j, grid_.east_face(i - 1, j), flux_e_(i - 1, j));
-      if (grid_.has_north(j)) as_left(i, j + 1, grid_.north_face(i, j), flux_n_(i, j));
-      if (grid_.has_south(j)) as_right(i, j - 1, grid_.north_face(i, j - 1), flux_n_(i, j - 1));
+      if (grid_.has_east(i)) as_left(grid_.local(i + 1, j), terms_e_, flux_e_, row.east);
+      if (grid_.has_west(i)) as_right(grid_.local(i - 1, j), terms_e_, flux_e_, row.west);
+      if (grid_.has_north(j)) as_left(grid_.local(i, j + 1), terms_n_, flux_n_, row.north);
+      if (grid_.has_south(j)) as_right(grid_.local(i, j - 1), terms_n_, flux_n_, row.south);
 
       // Boundary faces: each face's condition adds its convection and diffusion terms.
       for (int slot : cell_faces_[o]) {
@@ -141,21 +147,21 @@ void FlowSolver::assemble_momentum(ResidualNorms& residual) {
         const MomentumFaceInput in{
             bflux_[slot],
             {ub, vb},
-            vel_(i, j),
+            vel_[c],
             {normal_derivative(vel_.x, grad_u_, ub, f), normal_derivative(vel_.y, grad_v_, vb, f)},
             area,
             dot(f.centre - xp, (1.0 / area) * f.area),
             nu,
-            nu_eff_(i, j)};
-        MomentumRow row{diag, bu, bv, diffusive};
-        condition(f).add_momentum(in, row);
-        diag = row.diag;
-        bu = row.rhs_u;
-        bv = row.rhs_v;
-        diffusive = row.diffusive;
+            nu_eff_[c]};
+        MomentumRow terms{diag, bu, bv, diffusive};
+        condition(f).add_momentum(in, terms);
+        diag = terms.diag;
+        bu = terms.rhs_u;
+        bv = terms.rhs_v;
+        diffusive = terms.diffusive;
       }
-      res_u += std::abs(bu + off_u - diag * vel_.x(i, j));
-      res_v += std::abs(bv + off_v - diag * vel_.y(i, j));
+      res_u += std::abs(bu + off_u - diag * vel_.x[c]);
+      res_v += std::abs(bv + off_v - diag * vel_.y[c]);
       // Under-relaxation (Patankar 1980, eq. 4.38) as a local pseudo-time term r (phi - phi_old),
       // r = (1 - alpha)/alpha (a_P - (1 - s) D_P), where D_P is the diffusive part of a_P and s
       // = relax_diffusive_part. With s = 1 this is a_P/alpha; with s < 1 convection keeps the
@@ -164,22 +170,18 @@ void FlowSolver::assemble_momentum(ResidualNorms& residual) {
       // otherwise grow with the square of the wall-normal cell count).
       const double relaxation = (1.0 - alpha) / alpha * (diag - (1.0 - share) * diffusive);
       const double diag_relaxed = diag + relaxation;
-      rhs_u_[o] = bu + relaxation * vel_.x(i, j);
-      rhs_v_[o] = bv + relaxation * vel_.y(i, j);
-      vals[0] = diag_relaxed;
-      diag_[o] = diag_relaxed;
-      d_rc_(i, j) = volume / diag;
-      memory_(i, j) = relaxation / diag_relaxed;
+      rhs_u_[o] = bu + relaxation * vel_.x[c];
+      rhs_v_[o] = bv + relaxation * vel_.y[c];
+      row.centre = diag_relaxed;
+      d_rc_[c] = volume / diag;
+      memory_[c] = relaxation / diag_relaxed;
       // SIMPLEC: d = V / (a_P - sum a_nb) (van Doormaal & Raithby 1984), bounded by V / r where
       // a transient mass imbalance makes sum a_nb exceed the unrelaxed a_P.
-      d_corr_(i, j) = spec_.iterations.coupling == Coupling::simplec
-                          ? volume / std::max(diag_relaxed - sum_nb, relaxation)
-                          : volume / diag_relaxed;
-      check_petsc(MatSetValuesStencil(a, 1, &row, n, cols, vals, INSERT_VALUES));
+      d_corr_[c] = is_simplec ? volume / std::max(diag_relaxed - sum_nb, relaxation) : volume / diag_relaxed;
+      write_row(grid_, fill, i, j, row);
     }
   }
-  check_petsc(MatAssemblyBegin(a, MAT_FINAL_ASSEMBLY));
-  check_petsc(MatAssemblyEnd(a, MAT_FINAL_ASSEMBLY));
+  fill.end();
   residual.u = grid_.global_sum(res_u);
   residual.v = grid_.global_sum(res_v);
 }

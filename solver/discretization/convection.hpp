@@ -33,23 +33,4 @@ inline double face_value(ConvectionScheme scheme, double flux, double phi_l, dou
   return phi_u;
 }
 
-/// Geometry of the interior face between L and R used by every transport equation.
-struct InteriorFaceGeometry {
-  Vec2 d;      ///< x_R - x_L
-  double wl;   ///< linear-interpolation weight of L
-  Vec2 skew;   ///< face centre minus its projection on the L-R line
-  double k;    ///< |S|^2 / (S . d): implicit diffusion factor (over-relaxed split)
-  Vec2 cross;  ///< S - k d: the explicit (non-orthogonal) part of the diffusion
-};
-
-inline InteriorFaceGeometry interior_face_geometry(Vec2 xl, Vec2 xr, Vec2 area, Vec2 centre) {
-  InteriorFaceGeometry g;
-  g.d = xr - xl;
-  g.wl = dot(xr - centre, g.d) / dot(g.d, g.d);
-  g.skew = centre - (xl + (1.0 - g.wl) * g.d);
-  g.k = dot(area, area) / dot(area, g.d);
-  g.cross = area - g.k * g.d;
-  return g;
-}
-
 }  // namespace wallrans

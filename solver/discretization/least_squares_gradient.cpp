@@ -20,9 +20,11 @@ void for_each_neighbour(const Grid& grid, int i, int j, Fn&& fn) {
 
 LeastSquaresGradient::LeastSquaresGradient(const Grid& grid, const std::vector<BoundaryFace>& faces,
                                            const std::function<bool(const BoundaryFace&)>& include)
-    : grid_(grid), faces_(faces), fits_(grid.n_owned()) {
+    : grid_(grid), faces_(faces), fits_(grid.n_owned()), boundary_weighted_(faces.size()) {
   for (size_t f = 0; f < faces.size(); ++f) {
     if (!include(faces[f])) continue;
+    const Vec2 d = faces[f].centre - grid.centre(faces[f].i, faces[f].j);
+    boundary_weighted_[f] = (1.0 / dot(d, d)) * d;
     auto& slots = fits_[grid.owned(faces[f].i, faces[f].j)].boundary;
     for (int& s : slots) {
       if (s < 0) {
@@ -62,19 +64,26 @@ void LeastSquaresGradient::compute(const Field& phi, const std::vector<double>& 
                                    VectorField& grad) const {
   for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
     for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
-      const double p = phi(i, j);
+      const size_t c = grid_.local(i, j);
+      const double p = phi[c];
       double bx = 0, by = 0;
-      auto add = [&](Vec2 d, double dphi) {
-        const double w = 1.0 / dot(d, d);
-        bx += w * d.x * dphi;
-        by += w * d.y * dphi;
+      // w dx dphi per neighbour, with w dx cached: the faces' d_weighted points from the lower-index
+      // cell, so it changes sign for the west and south neighbours.
+      auto add = [&](Vec2 dw, double dphi) {
+        bx += dw.x * dphi;
+        by += dw.y * dphi;
       };
-      for_each_neighbour(grid_, i, j, [&](int in, int jn, Vec2 d) { add(d, phi(in, jn) - p); });
+      if (grid_.has_east(i)) add(grid_.east_face(i, j).d_weighted, phi[grid_.local(i + 1, j)] - p);
+      if (grid_.has_west(i)) add(-1.0 * grid_.east_face(i - 1, j).d_weighted, phi[grid_.local(i - 1, j)] - p);
+      if (grid_.has_north(j)) add(grid_.north_face(i, j).d_weighted, phi[grid_.local(i, j + 1)] - p);
+      if (grid_.has_south(j))
+        add(-1.0 * grid_.north_face(i, j - 1).d_weighted, phi[grid_.local(i, j - 1)] - p);
       const CellFit& fit = fits_[grid_.owned(i, j)];
       for (int s : fit.boundary) {
-        if (s >= 0) add(faces_[s].centre - grid_.centre(i, j), phi_b[s] - p);
+        if (s >= 0) add(boundary_weighted_[s], phi_b[s] - p);
       }
-      grad.set(i, j, {fit.inv_xx * bx + fit.inv_xy * by, fit.inv_xy * bx + fit.inv_yy * by});
+      grad.x[c] = fit.inv_xx * bx + fit.inv_xy * by;
+      grad.y[c] = fit.inv_xy * bx + fit.inv_yy * by;
     }
   }
 }

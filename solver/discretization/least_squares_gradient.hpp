@@ -29,7 +29,8 @@ class LeastSquaresGradient {
   };
   const Grid& grid_;
   const std::vector<BoundaryFace>& faces_;
-  std::vector<CellFit> fits_;  // owned cells, owned order
+  std::vector<CellFit> fits_;            // owned cells, owned order
+  std::vector<Vec2> boundary_weighted_;  // d / |d|^2 from the owner centre to each included face
 };
 
 }  // namespace wallrans

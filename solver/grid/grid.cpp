@@ -28,6 +28,18 @@ void quad_metrics(Vec2 a, Vec2 b, Vec2 c, Vec2 d, double& area, Vec2& centroid) 
   centroid = (std::abs(twice_area) > 0.0) ? (1.0 / (3.0 * twice_area)) * moment : 0.25 * (a + b + c + d);
 }
 
+// The face's relation to its cells with centres xl and xr: interpolation weight, skewness and the
+// over-relaxed split of the diffusive flux S = k d + cross (Jasak 1996, sec. 3.3.1.3).
+void relate_to_cells(Vec2 xl, Vec2 xr, FaceGeometry& face) {
+  face.d = xr - xl;
+  const double d2 = dot(face.d, face.d);
+  face.d_weighted = (1.0 / d2) * face.d;
+  face.wl = dot(xr - face.centre, face.d) / d2;
+  face.skew = face.centre - (xl + (1.0 - face.wl) * face.d);
+  face.k = dot(face.area, face.area) / dot(face.area, face.d);
+  face.cross = face.area - face.k * face.d;
+}
+
 }  // namespace
 
 Vec2 Grid::node(int i, int j) const {
@@ -81,7 +93,12 @@ Grid::Grid(MPI_Comm comm, NodeCoordinates nodes, bool periodic_x)
     for (int i = gxs_ - 1; i < gxs_ + gxm_; ++i) {
       const Vec2 a = node(i + 1, j), b = node(i + 1, j + 1);
       const Vec2 edge = b - a;  // runs towards +j; the normal (dy, -dx) points towards +i
-      east_[static_cast<size_t>(j - gys_) * (gxm_ + 1) + (i - gxs_ + 1)] = {{edge.y, -edge.x}, 0.5 * (a + b)};
+      FaceGeometry& face = east_[static_cast<size_t>(j - gys_) * (gxm_ + 1) + (i - gxs_ + 1)];
+      face.area = {edge.y, -edge.x};
+      face.centre = 0.5 * (a + b);
+      face.length = norm(face.area);
+      if (i >= gxs_ && i + 1 < gxs_ + gxm_ && has_east(i))
+        relate_to_cells(centre(i, j), centre(i + 1, j), face);
     }
   }
   north_.resize(static_cast<size_t>(gxm_) * (gym_ + 1));
@@ -89,7 +106,12 @@ Grid::Grid(MPI_Comm comm, NodeCoordinates nodes, bool periodic_x)
     for (int i = gxs_; i < gxs_ + gxm_; ++i) {
       const Vec2 a = node(i, j + 1), b = node(i + 1, j + 1);
       const Vec2 edge = b - a;  // runs towards +i; the normal (-dy, dx) points towards +j
-      north_[static_cast<size_t>(j - gys_ + 1) * gxm_ + (i - gxs_)] = {{-edge.y, edge.x}, 0.5 * (a + b)};
+      FaceGeometry& face = north_[static_cast<size_t>(j - gys_ + 1) * gxm_ + (i - gxs_)];
+      face.area = {-edge.y, edge.x};
+      face.centre = 0.5 * (a + b);
+      face.length = norm(face.area);
+      if (j >= gys_ && j + 1 < gys_ + gym_ && has_north(j))
+        relate_to_cells(centre(i, j), centre(i, j + 1), face);
     }
   }
 }

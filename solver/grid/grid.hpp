@@ -12,11 +12,20 @@
 
 namespace wallrans {
 
-/// Geometry of one face. `area` is the area vector (length = face length, 1 m deep), pointing
-/// towards increasing i (east faces) or increasing j (north faces).
+/// Geometry of one face, computed once with the grid. `area` is the area vector (length = face
+/// length, 1 m deep), pointing towards increasing i (east faces) or increasing j (north faces).
+/// The rest relates the face to its cells L (lower index) and R; it is zero where one of them lies
+/// outside the domain or the ghosted range (such faces are never interior faces of owned cells).
 struct FaceGeometry {
   Vec2 area;
   Vec2 centre;
+  double length = 0.0;  ///< |area| [m]
+  Vec2 d;               ///< x_R - x_L
+  Vec2 d_weighted;      ///< d / |d|^2: the face's row in the weighted least-squares gradient
+  double wl = 0.0;      ///< linear-interpolation weight of L (face centre projected on L-R)
+  Vec2 skew;            ///< face centre minus its projection on the line L-R
+  double k = 0.0;       ///< |S|^2 / (S . d): implicit diffusion factor of the over-relaxed split
+  Vec2 cross;           ///< S - k d: the explicit (non-orthogonal) part of the diffusion
 };
 
 class Grid {
@@ -62,11 +71,16 @@ class Grid {
   /// translated by the period so that neighbour vectors are geometric.
   Vec2 centre(int i, int j) const { return centre_[local(i, j)]; }
   double volume(int i, int j) const { return volume_[local(i, j)]; }
-  /// Face between (i, j) and (i+1, j), for gx_begin-1 <= i < gx_end.
+  /// The same by ghosted index local(i, j), for inner loops that address several fields.
+  Vec2 centre(size_t local_index) const { return centre_[local_index]; }
+  double volume(size_t local_index) const { return volume_[local_index]; }
+  /// Face between (i, j) and (i+1, j), for gx_begin-1 <= i < gx_end; the L-R data are set for
+  /// gx_begin <= i < gx_end-1 where the domain continues.
   const FaceGeometry& east_face(int i, int j) const {
     return east_[static_cast<size_t>(j - gys_) * (gxm_ + 1) + (i - gxs_ + 1)];
   }
-  /// Face between (i, j) and (i, j+1), for gy_begin-1 <= j < gy_end.
+  /// Face between (i, j) and (i, j+1), for gy_begin-1 <= j < gy_end; the L-R data are set for
+  /// gy_begin <= j < gy_end-1.
   const FaceGeometry& north_face(int i, int j) const {
     return north_[static_cast<size_t>(j - gys_ + 1) * gxm_ + (i - gxs_)];
   }
@@ -93,6 +107,24 @@ class Grid {
   std::vector<FaceGeometry> east_, north_;
 };
 
+/// Local: calls east(i, j) for the face between (i, j) and (i+1, j) and north(i, j) for the face
+/// between (i, j) and (i, j+1), once for every interior face of the owned cells, the faces shared
+/// with ghost cells included (their cells are both in the ghosted range).
+template <typename East, typename North>
+void for_each_interior_face(const Grid& grid, East&& east, North&& north) {
+  const int i_first = grid.has_west(grid.x_begin()) ? grid.x_begin() - 1 : grid.x_begin();
+  for (int j = grid.y_begin(); j < grid.y_end(); ++j) {
+    for (int i = i_first; i < grid.x_end(); ++i) {
+      if (grid.has_east(i)) east(i, j);
+    }
+  }
+  const int j_first = grid.has_south(grid.y_begin()) ? grid.y_begin() - 1 : grid.y_begin();
+  for (int j = j_first; j < grid.y_end(); ++j) {
+    if (!grid.has_north(j)) continue;
+    for (int i = grid.x_begin(); i < grid.x_end(); ++i) north(i, j);
+  }
+}
+
 /// A cell-centred scalar over the ghosted range of a grid.
 class Field {
  public:
@@ -100,6 +132,9 @@ class Field {
   explicit Field(const Grid& grid, double value = 0.0) : grid_(&grid), data_(grid.n_ghosted(), value) {}
   double& operator()(int i, int j) { return data_[grid_->local(i, j)]; }
   double operator()(int i, int j) const { return data_[grid_->local(i, j)]; }
+  /// By ghosted index Grid::local(i, j), for inner loops that address several fields.
+  double& operator[](size_t local_index) { return data_[local_index]; }
+  double operator[](size_t local_index) const { return data_[local_index]; }
   std::vector<double>& data() { return data_; }
   const std::vector<double>& data() const { return data_; }
   /// Collective: refresh ghost values.
@@ -116,6 +151,7 @@ struct VectorField {
   VectorField() = default;
   explicit VectorField(const Grid& grid) : x(grid), y(grid) {}
   Vec2 operator()(int i, int j) const { return {x(i, j), y(i, j)}; }
+  Vec2 operator[](size_t local_index) const { return {x[local_index], y[local_index]}; }
   void set(int i, int j, Vec2 value) {
     x(i, j) = value.x;
     y(i, j) = value.y;

@@ -93,6 +93,71 @@ TEST(Grid, PeriodicGhostsAreTranslatedAndExchanged) {
   }
 }
 
+namespace {
+
+// The cached relation of a face to its cells L and R against its definitions: d joins the centres,
+// wl and skew place the face centre at x_L + (1 - wl) d + skew with skew normal to d, and the
+// over-relaxed split S = k d + cross has cross normal to S (Jasak 1996, sec. 3.3.1.3).
+void expect_face_related_to_cells(const FaceGeometry& f, Vec2 xl, Vec2 xr) {
+  const Vec2 d = xr - xl;
+  EXPECT_EQ(f.d.x, d.x);
+  EXPECT_EQ(f.d.y, d.y);
+  EXPECT_DOUBLE_EQ(f.length, norm(f.area));
+  const Vec2 dw = dot(d, d) * f.d_weighted;
+  EXPECT_NEAR(dw.x, d.x, 1e-15 * norm(d));
+  EXPECT_NEAR(dw.y, d.y, 1e-15 * norm(d));
+  const Vec2 centre = xl + (1.0 - f.wl) * d + f.skew;
+  EXPECT_NEAR(centre.x, f.centre.x, 1e-14);
+  EXPECT_NEAR(centre.y, f.centre.y, 1e-14);
+  EXPECT_NEAR(dot(f.skew, d), 0.0, 1e-15);
+  const Vec2 split = f.k * d + f.cross;
+  EXPECT_NEAR(split.x, f.area.x, 1e-15);
+  EXPECT_NEAR(split.y, f.area.y, 1e-15);
+  EXPECT_NEAR(dot(f.cross, f.area), 0.0, 1e-15);
+  EXPECT_GT(f.k, 0.0);
+}
+
+// Every interior face of the owned cells, the faces shared with ghost cells included.
+void check_face_cache(const Grid& grid) {
+  int n_east = 0, n_north = 0;
+  for_each_interior_face(
+      grid,
+      [&](int i, int j) {
+        expect_face_related_to_cells(grid.east_face(i, j), grid.centre(i, j), grid.centre(i + 1, j));
+        ++n_east;
+      },
+      [&](int i, int j) {
+        expect_face_related_to_cells(grid.north_face(i, j), grid.centre(i, j), grid.centre(i, j + 1));
+        ++n_north;
+      });
+  // Each face once: the faces between owned cells and those to the ghost cells on either side.
+  const int nx = grid.x_end() - grid.x_begin(), ny = grid.y_end() - grid.y_begin();
+  const int east_per_row =
+      nx - 1 + (grid.has_west(grid.x_begin()) ? 1 : 0) + (grid.has_east(grid.x_end() - 1) ? 1 : 0);
+  EXPECT_EQ(n_east, ny * east_per_row);
+  const int north_rows =
+      ny - 1 + (grid.has_south(grid.y_begin()) ? 1 : 0) + (grid.has_north(grid.y_end() - 1) ? 1 : 0);
+  EXPECT_EQ(n_north, nx * north_rows);
+}
+
+}  // namespace
+
+TEST(Grid, FaceCacheMatchesItsDefinitionsOnSkewedGrid) {
+  Grid grid(MPI_COMM_WORLD, generate_nodes(skewed_spec(10)), false);
+  check_face_cache(grid);
+}
+
+TEST(Grid, FaceCacheMatchesItsDefinitionsAcrossPeriodicSeam) {
+  GridSpec spec;
+  spec.generator = GridGenerator::channel;
+  spec.cells_x = 6;
+  spec.cells_y = 8;
+  spec.length = 3.0;
+  spec.first_cell_height = 0.01;
+  Grid grid(MPI_COMM_WORLD, generate_nodes(spec), true);
+  check_face_cache(grid);
+}
+
 TEST(Spacing, OneSidedHitsFirstSpacingAndExtent) {
   const auto s = one_sided_spacing(40, 2.0, 1e-4, "test");
   EXPECT_NEAR(s[1] - s[0], 1e-4, 1e-10);
