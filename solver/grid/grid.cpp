@@ -4,7 +4,6 @@
 #include <petscdmda.h>
 
 #include <algorithm>
-#include <cstring>
 #include <string>
 
 #include "core/error.hpp"
@@ -77,7 +76,6 @@ Grid::Grid(MPI_Comm comm, NodeCoordinates nodes, bool periodic_x)
   check_petsc(DMSetUp(dm_.get()));
   check_petsc(DMDAGetCorners(dm_.get(), &xs_, &ys_, nullptr, &xm_, &ym_, nullptr));
   check_petsc(DMDAGetGhostCorners(dm_.get(), &gxs_, &gys_, nullptr, &gxm_, &gym_, nullptr));
-  check_petsc(DMCreateGlobalVector(dm_.get(), scratch_global_.out()));
   check_petsc(DMCreateLocalVector(dm_.get(), scratch_local_.out()));
 
   centre_.resize(n_ghosted());
@@ -117,17 +115,15 @@ Grid::Grid(MPI_Comm comm, NodeCoordinates nodes, bool periodic_x)
 }
 
 void Grid::exchange(std::vector<double>& ghosted) const {
-  PetscScalar* g = nullptr;
-  check_petsc(VecGetArray(scratch_global_.get(), &g));
-  for (int j = ys_; j < ys_ + ym_; ++j) {
-    for (int i = xs_; i < xs_ + xm_; ++i) g[owned(i, j)] = ghosted[local(i, j)];
-  }
-  check_petsc(VecRestoreArray(scratch_global_.get(), &g));
-  check_petsc(DMGlobalToLocal(dm_.get(), scratch_global_.get(), INSERT_VALUES, scratch_local_.get()));
-  const PetscScalar* l = nullptr;
-  check_petsc(VecGetArrayRead(scratch_local_.get(), &l));
-  std::memcpy(ghosted.data(), l, sizeof(double) * n_ghosted());
-  check_petsc(VecRestoreArrayRead(scratch_local_.get(), &l));
+  // In place: the DMDA's local-to-local scatter copies every owned value onto itself and fills
+  // each ghost from its owner, so only the ghosted array is read and written.
+  check_petsc(VecPlaceArray(scratch_local_.get(), ghosted.data()));
+  const PetscErrorCode begin =
+      DMLocalToLocalBegin(dm_.get(), scratch_local_.get(), INSERT_VALUES, scratch_local_.get());
+  const PetscErrorCode end =
+      begin ? begin : DMLocalToLocalEnd(dm_.get(), scratch_local_.get(), INSERT_VALUES, scratch_local_.get());
+  check_petsc(VecResetArray(scratch_local_.get()));  // before any throw: the Vec must not keep the array
+  check_petsc(end);
 }
 
 double Grid::global_sum(double local_value) const {

@@ -100,7 +100,7 @@ class Grid {
   NodeCoordinates nodes_;
   bool periodic_x_;
   OwnedDm dm_;
-  OwnedVec scratch_global_, scratch_local_;
+  OwnedVec scratch_local_;  // wraps a ghosted array during exchange()
   int xs_ = 0, ys_ = 0, xm_ = 0, ym_ = 0, gxs_ = 0, gys_ = 0, gxm_ = 0, gym_ = 0;
   std::vector<Vec2> centre_;
   std::vector<double> volume_;
