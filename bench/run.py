@@ -350,7 +350,7 @@ def run_case(case, case_file, ranks, build_dir, workdir, cap):
         result["iterations"] = summary["iterations"]
         result["solver_time_s"] = summary["wall_time_s"]
         result["final_residuals"] = summary["residuals"]
-    history = read_history(rundir / "history.csv")
+    history = read_history(rundir / "residuals.csv")
     if history and history.get("iteration"):
         result.setdefault("iterations", int(history["iteration"][-1]))
         n = len(history["iteration"])
@@ -639,7 +639,7 @@ def main():
         "machine": machine,
         "options": {"quick": args.quick, "only": sorted(only), "ranks": ranks_list,
                     "max_iterations": args.max_iterations, "residual_drop": RESIDUAL_DROP,
-                    "build_dir": str(build_dir), "work_dir": str(workdir)},
+                    "build_dir": (str(build_dir.relative_to(REPO)) if build_dir.is_relative_to(REPO) else str(build_dir)), "work_dir": str(workdir)},
         "cases": {c["name"]: {"config": c["config"], "description": c["description"], "scale": c["scale"]}
                   for c in cases},
         "triad": triad,

@@ -30,7 +30,7 @@ cat <<MSG
 demo: results are in ${root}/${DEMO_OUT}/
   fields.pvts, fields_<rank>.vts  cell data: velocity, pressure, eddy_viscosity, nu_tilde,
                                   wall_distance, y_plus, cell_volume, cell_index
-  history.csv                     residuals (incl. the model's) and linear-solver iterations
+  residuals.csv                     residuals (incl. the model's) and linear-solver iterations
   wall.csv                        x, y, Cf, Cp, wall shear stress, first-cell y+ along the plate
   profile_<k>.csv                 y, y+, U+, nu_t/nu at the stations x = 0.25, 0.5, 0.9 m
   checkpoint_<N>.h5 / .xmf        restart file (parallel HDF5) and its XDMF description

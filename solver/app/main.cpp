@@ -17,7 +17,7 @@ namespace {
 constexpr const char* usage =
     "usage: wallrans <command> [arguments]\n"
     "  run CASE.yaml [--output-dir DIR] [--max-iterations N] [--quiet] [--restart FILE.h5] [--walltime S]\n"
-    "                  solve the case; writes fields (VTK), history.csv, wall.csv, summary.json\n"
+    "                  solve the case; writes fields (VTK), residuals.csv, wall.csv, summary.json\n"
     "  check CASE.yaml validate the case and its grid without running; writes nothing\n"
     "  version         print the version\n"
     "PETSc options for the linear solvers go last, e.g. -pressure_ksp_rtol 1e-3\n"

@@ -208,9 +208,9 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
     write_file_atomically(dir / "case.resolved.yaml", case_text, "run directory");
     // On a restart, keep the history rows up to the restart iteration.
     std::vector<std::vector<double>> earlier;
-    if (first_iteration > 0 && std::filesystem::exists(dir / "history.csv")) {
+    if (first_iteration > 0 && std::filesystem::exists(dir / "residuals.csv")) {
       try {
-        for (const auto& row : read_csv((dir / "history.csv").string()).rows)
+        for (const auto& row : read_csv((dir / "residuals.csv").string()).rows)
           if (!row.empty() && row[0] <= first_iteration) earlier.push_back(row);
       } catch (const InputError&) {
         earlier.clear();  // an unreadable old history is replaced, not fatal
@@ -222,7 +222,7 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
       columns.push_back(c);
     for (const auto& r : model->residuals()) columns.push_back(r.name + "_residual_abs");
     for (const char* c : {"momentum_linear_its", "pressure_linear_its", "elapsed_s"}) columns.push_back(c);
-    history = std::make_unique<CsvWriter>((dir / "history.csv").string(), columns);
+    history = std::make_unique<CsvWriter>((dir / "residuals.csv").string(), columns);
     for (const auto& row : earlier)
       if (row.size() == columns.size()) history->row(row);
     if (first_iteration > 0)
@@ -303,7 +303,7 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
   std::signal(SIGINT, SIG_DFL);
   if (diverged) {
     if (rank == 0)
-      std::printf("wallrans: diverged at iteration %d; fields not written (history.csv kept)\n",
+      std::printf("wallrans: diverged at iteration %d; fields not written (residuals.csv kept)\n",
                   status.iteration);
     return 4;
   }

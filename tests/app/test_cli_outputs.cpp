@@ -146,7 +146,7 @@ std::unique_ptr<ScratchDirectory> CavityRun::scratch_;
 ProgramResult CavityRun::result_;
 
 TEST_F(CavityRun, WritesEveryOutputAndNoTemporaryFile) {
-  for (const char* name : {"case.resolved.yaml", "history.csv", "fields.pvts", "fields_0.vts", "fields_1.vts",
+  for (const char* name : {"case.resolved.yaml", "residuals.csv", "fields.pvts", "fields_0.vts", "fields_1.vts",
                            "wall.csv", "summary.json"}) {
     EXPECT_TRUE(fs::is_regular_file(output() / name)) << name;
   }
@@ -205,7 +205,7 @@ TEST_F(CavityRun, FieldsReadBackWithVtkAndObeyThePhysics) {
 }
 
 TEST_F(CavityRun, HistoryRecordsEveryIterationUntilConvergence) {
-  const wallrans::CsvTable history = wallrans::read_csv((output() / "history.csv").string());
+  const wallrans::CsvTable history = wallrans::read_csv((output() / "residuals.csv").string());
   ASSERT_GE(history.columns.size(), 4u);
   EXPECT_EQ(std::vector<std::string>(history.columns.begin(), history.columns.begin() + 4),
             (std::vector<std::string>{"iteration", "u_residual", "v_residual", "continuity_residual"}));
@@ -279,7 +279,7 @@ TEST_F(CavityRun, IterationCapGivesExitThreeWithOutputs) {
       {"run", "cavity.yaml", "--output-dir", "capped", "--max-iterations", std::to_string(cap), "--quiet"},
       scratch() / "logs", "capped");
   EXPECT_EQ(capped.exit_status, 3) << capped.err;
-  const wallrans::CsvTable history = wallrans::read_csv((scratch() / "capped" / "history.csv").string());
+  const wallrans::CsvTable history = wallrans::read_csv((scratch() / "capped" / "residuals.csv").string());
   EXPECT_EQ(history.rows.size(), size_t(cap));
   EXPECT_TRUE(contains(read_text(scratch() / "capped" / "summary.json"), "\"converged\": false"));
   EXPECT_TRUE(fs::exists(scratch() / "capped" / "fields.pvts"));
@@ -351,7 +351,7 @@ TEST(TurbulentRun, WritesModelFieldsWallYplusAndProfiles) {
     EXPECT_TRUE(std::isfinite(nu_tilde[k]));
   }
   EXPECT_GT(*std::max_element(nut.begin(), nut.end()), 0.0);  // turbulent somewhere
-  const auto history = wallrans::read_csv((out / "history.csv").string());
+  const auto history = wallrans::read_csv((out / "residuals.csv").string());
   EXPECT_GE(column_of(history, "nu_tilde_residual"), 0);
   const auto wall = wallrans::read_csv((out / "wall.csv").string());
   const int yp = column_of(wall, "first_cell_y_plus");

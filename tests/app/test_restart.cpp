@@ -80,7 +80,7 @@ TEST(Restart, StraightAndRestartedRunsAreBitIdentical) {
     EXPECT_EQ(differing, 0u) << name;
   }
   // The history of the restarted run continues the first part: iterations 1..66 once each.
-  const auto history = wallrans::read_csv((scratch.path() / "split" / "history.csv").string());
+  const auto history = wallrans::read_csv((scratch.path() / "split" / "residuals.csv").string());
   ASSERT_EQ(history.rows.size(), 66u);
   for (size_t k = 0; k < history.rows.size(); ++k) EXPECT_EQ(history.rows[k][0], double(k + 1));
 }
@@ -143,7 +143,7 @@ TEST(Restart, SigtermWritesARestartableCheckpointAndExitsFive) {
   // Wait until the run is well under way (history rows appear), then send what a scheduler sends.
   const auto deadline = std::chrono::steady_clock::now() + std::chrono::seconds(60);
   while (std::chrono::steady_clock::now() < deadline) {
-    if (fs::exists(out / "history.csv") && lines_of(read_text(out / "history.csv")).size() > 50) break;
+    if (fs::exists(out / "residuals.csv") && lines_of(read_text(out / "residuals.csv")).size() > 50) break;
     std::this_thread::sleep_for(std::chrono::milliseconds(20));
   }
   ASSERT_EQ(kill(pid, SIGTERM), 0);
@@ -231,9 +231,11 @@ TEST(Restart, CheckpointOpensWithStandardTools) {
 
 TEST(Restart, WallClockBudgetStopsWithACheckpoint) {
   ScratchDirectory scratch("wallrans_restart_walltime");
-  // The channel needs several seconds to converge; a 2 s budget stops it early.
+  // The shipped plate needs about 200 iterations (several seconds on one rank); a 1 s budget
+  // stops it early (the channel converges in under a second now).
+  const std::string plate_case = std::string(WALLRANS_SOURCE_DIR) + "/configs/plate_sa.yaml";
   auto run =
-      run_program(scratch.path(), {"run", channel_case, "--output-dir", "run", "--quiet", "--walltime", "2"},
+      run_program(scratch.path(), {"run", plate_case, "--output-dir", "run", "--quiet", "--walltime", "1"},
                   scratch.path() / "logs", "budget");
   EXPECT_EQ(run.exit_status, 5) << run.out << run.err;
   EXPECT_NE(run.out.find("wall-clock budget"), std::string::npos) << run.out;

@@ -233,7 +233,7 @@ TEST(Csv, RoundTripIsExact) {
   const ScratchDirectory scratch;
   if (world_rank() != 0) return;  // rank-0 output by design
   fs::create_directories(scratch.path());
-  const std::string path = (scratch.path() / "history.csv").string();
+  const std::string path = (scratch.path() / "residuals.csv").string();
   const std::vector<std::vector<double>> rows = {
       {1.0, 0.1, -2.5e-300}, {2.0, 1.0 / 3.0, 6.02214076e23}, {3.0, -0.0, std::nextafter(1.0, 2.0)}};
   {
