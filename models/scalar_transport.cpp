@@ -10,6 +10,7 @@
 #include "core/error.hpp"
 #include "discretization/convection.hpp"
 #include "discretization/matrix_row.hpp"
+#include "discretization/relaxation.hpp"
 
 namespace wallrans {
 
@@ -168,10 +169,8 @@ double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
         }
       }
       residual += std::abs(rhs + off - diag * phi(i, j));
-      // Under-relaxation (Patankar 1980, eq. 4.38) acting on all of a_P but the implicit share
-      // 1 - s of the diffusion, as in the momentum equations (DEVELOPERS.md, Outer iteration).
-      const double relaxation =
-          (1.0 - eq.relax) / eq.relax * (diag - (1.0 - eq.relax_diffusive_part) * diffusive);
+      // Relaxed as the momentum equations (discretization/relaxation.hpp).
+      const double relaxation = relaxation_term(diag, diffusive, eq.relax, eq.relax_diffusive_part);
       row.centre = diag + relaxation;
       b[j][i] = rhs + relaxation * phi(i, j);
       write_row(grid_, fill, i, j, row);

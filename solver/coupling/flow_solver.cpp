@@ -140,6 +140,15 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
     check_petsc(MatSetNullSpace(a_pc_setup_.mat(), null_space_.get()));
   }
   rhs_u_.assign(grid.n_owned(), 0.0);
+  // Continuity residual per cell: the imbalance relative to the flux U_ref carries through half
+  // the cell's faces.
+  for (int j = grid.y_begin(); j < grid.y_end(); ++j) {
+    for (int i = grid.x_begin(); i < grid.x_end(); ++i) {
+      const double half_perimeter = 0.5 * (grid.east_face(i, j).length + grid.east_face(i - 1, j).length +
+                                           grid.north_face(i, j).length + grid.north_face(i, j - 1).length);
+      continuity_scale_.push_back(1.0 / (spec.flow.reference_velocity * half_perimeter));
+    }
+  }
   rhs_v_.assign(grid.n_owned(), 0.0);
   terms_e_.assign(grid.n_ghosted(), FaceTerms{});
   terms_n_.assign(grid.n_ghosted(), FaceTerms{});

@@ -158,6 +158,7 @@ class FlowSolver {
   std::vector<double> wall_shear_local_;  // this rank's part of wall_shear_ before the sum
   int iteration_ = 0;
   bool velocity_gradients_current_ = false;  // grad_u_, grad_v_ belong to vel_ and u_b_, v_b_
+  std::vector<double> continuity_scale_;     // 1 / (U_ref half perimeter) per owned cell, owned order
   double continuity_per_cell_ = 0.0;         // mean relative mass imbalance of the last iteration
 
   VectorField vel_, vel_old_, grad_u_, grad_v_, grad_p_, grad_pc_;

@@ -11,6 +11,7 @@
 #include "coupling/flow_solver.hpp"
 #include "discretization/convection.hpp"
 #include "discretization/matrix_row.hpp"
+#include "discretization/relaxation.hpp"
 
 namespace wallrans {
 
@@ -162,13 +163,7 @@ void FlowSolver::assemble_momentum(ResidualNorms& residual) {
       }
       res_u += std::abs(bu + off_u - diag * vel_.x[c]);
       res_v += std::abs(bv + off_v - diag * vel_.y[c]);
-      // Under-relaxation (Patankar 1980, eq. 4.38) as a local pseudo-time term r (phi - phi_old),
-      // r = (1 - alpha)/alpha (a_P - (1 - s) D_P), where D_P is the diffusive part of a_P and s
-      // = relax_diffusive_part. With s = 1 this is a_P/alpha; with s < 1 convection keeps the
-      // pseudo-time step of alpha while most diffusion stays implicit, so the slow wall-normal
-      // diffusion modes are not damped by the relaxation (their count of outer iterations would
-      // otherwise grow with the square of the wall-normal cell count).
-      const double relaxation = (1.0 - alpha) / alpha * (diag - (1.0 - share) * diffusive);
+      const double relaxation = relaxation_term(diag, diffusive, alpha, share);
       const double diag_relaxed = diag + relaxation;
       rhs_u_[o] = bu + relaxation * vel_.x[c];
       rhs_v_[o] = bv + relaxation * vel_.y[c];

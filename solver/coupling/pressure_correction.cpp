@@ -75,8 +75,7 @@ void FlowSolver::pressure_coefficients(const Field& d, PressureCoefficients& out
   // A_f = d_f |S|^2 / (S . d): the face-flux response to the p' difference across the face; at a
   // fixed-pressure face the difference is taken to the face centre, where p' = 0.
   auto coefficient = [&](size_t l, size_t r, const FaceGeometry& face) {
-    const double dc = face.wl * d[l] + (1.0 - face.wl) * d[r];
-    return dc * dot(face.area, face.area) / dot(face.area, face.d);
+    return (face.wl * d[l] + (1.0 - face.wl) * d[r]) * face.k;
   };
   for_each_interior_face(
       grid_,
@@ -122,7 +121,6 @@ void FlowSolver::assemble_and_solve_pressure_correction(IterationStatus& status)
   PetscScalar** b = nullptr;
   check_petsc(DMDAVecGetArray(grid_.dm(), b_vec_.get(), &b));
   double imbalance = 0.0, imbalance_per_cell = 0.0;
-  const double u_ref = spec_.flow.reference_velocity;
   for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
     for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
       double net_out = 0.0;
@@ -135,10 +133,7 @@ void FlowSolver::assemble_and_solve_pressure_correction(IterationStatus& status)
       }
       b[j][i] = -net_out;
       imbalance += std::abs(net_out);
-      // The cell's imbalance relative to the flux U_ref carries through half its faces.
-      const double half_perimeter = 0.5 * (grid_.east_face(i, j).length + grid_.east_face(i - 1, j).length +
-                                           grid_.north_face(i, j).length + grid_.north_face(i, j - 1).length);
-      imbalance_per_cell += std::abs(net_out) / (u_ref * half_perimeter);
+      imbalance_per_cell += std::abs(net_out) * continuity_scale_[grid_.owned(i, j)];
     }
   }
   check_petsc(DMDAVecRestoreArray(grid_.dm(), b_vec_.get(), &b));
