@@ -348,6 +348,10 @@ def run_case(case, case_file, ranks, build_dir, workdir, cap):
         result["cells"] = summary["cells"][0] * summary["cells"][1]
         result["grid"] = summary["cells"]
         result["iterations"] = summary["iterations"]
+        # With a nested start, the coarse-grid iterations in units of fine-grid iterations
+        # (iterations x cells / fine cells) are added: growth and cost per iteration use this.
+        result["coarse_grids"] = summary.get("coarse_grids", [])
+        result["work_iterations"] = summary.get("work_in_fine_grid_iterations", summary["iterations"])
         result["solver_time_s"] = summary["wall_time_s"]
         result["final_residuals"] = summary["residuals"]
     history = read_history(rundir / "residuals.csv")
@@ -374,7 +378,7 @@ def run_case(case, case_file, ranks, build_dir, workdir, cap):
             floor = 0.05 * mean.get(name, 0.0)
             big = sorted(((e, t) for e, t in ev.items() if t >= floor), key=lambda x: -x[1])
             result["stage_events_s"][name] = {e: round(t, 4) for e, t in big}
-        cells, its = result.get("cells"), result.get("iterations")
+        cells, its = result.get("cells"), result.get("work_iterations", result.get("iterations"))
         if loop and cells and its:
             result["us_per_cell_iteration"] = round(loop / (cells * its) * 1e6, 4)
     rss = peak_rss_kib(rundir / "peak_rss", ranks)
@@ -405,7 +409,8 @@ def derived(results, triad, cases_by_name, ranks_list):
             a, b = find(results, coarse, ranks), find(results, fine, ranks)
             if not a or not b or not a.get("iterations") or not b.get("iterations") or not a["converged"]:
                 continue
-            growth = (b["iterations"] / a["iterations"]) ** (1.0 / doublings)
+            work = lambda r: r.get("work_iterations") or r["iterations"]
+            growth = (work(b) / work(a)) ** (1.0 / doublings)
             out["growth"].append({"coarse": coarse, "fine": fine, "ranks": ranks,
                                   "per_doubling": round(growth, 3), "lower_bound": not b["converged"]})
     for name in cases_by_name:
@@ -495,7 +500,7 @@ def markdown(report):
         lines.append(f"| {p} | {t['gb_per_s']:.1f} | {per} |")
     lines.append(f"\nRatio 2/1: {cell(report['derived']['triad_ratio_2_over_1'])}.")
     lines += ["", "## Runs", ""]
-    head = ["case", "grid", "cells", "ranks", "iterations", "status", "wall s", "us/cell/it", "peak MiB",
+    head = ["case", "grid", "cells", "ranks", "iterations", "work", "status", "wall s", "us/cell/it", "peak MiB",
             "kB/cell"] + [short for _, short in PHASES]
     lines.append("| " + " | ".join(head) + " |")
     lines.append("|" + "---|" * len(head))
@@ -503,7 +508,7 @@ def markdown(report):
         grid = "x".join(str(n) for n in r["grid"]) if r.get("grid") else "-"
         shares = r.get("phase_shares", {})
         row = [r["case"], grid, cell(r.get("cells"), "{}"), str(r["ranks"]), cell(r.get("iterations"), "{}"),
-               r["status"], f"{r['wall_time_s']:.1f}", cell(r.get("us_per_cell_iteration")),
+               cell(r.get("work_iterations"), "{:.0f}"), r["status"], f"{r['wall_time_s']:.1f}", cell(r.get("us_per_cell_iteration")),
                cell(r.get("peak_rss_mib_total"), "{:.0f}"), cell(r.get("peak_rss_kib_per_cell"), "{:.2f}")]
         row += [cell(100 * shares[name] if name in shares else None, "{:.1f} %") for name, _ in PHASES]
         lines.append("| " + " | ".join(row) + " |")

@@ -16,6 +16,7 @@
 #include "core/atomic_file.hpp"
 #include "core/error.hpp"
 #include "coupling/flow_solver.hpp"
+#include "coupling/nested_start.hpp"
 #include "grid/boundary.hpp"
 #include "grid/grid_quality.hpp"
 #include "io/case_loader.hpp"
@@ -240,6 +241,20 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
     write_vtk_fields(grid, scalars, {{"velocity", &solver.velocity()}}, dir.string(), basename);
   };
 
+  // A fresh run may start from the solution on coarser grids (iterations.coarse_grids).
+  std::vector<CoarseGridRun> coarse_runs;
+  if (first_iteration == 0 && spec.iterations.coarse_grids > 0) {
+    coarse_runs = start_from_coarser_grids(spec, grid, solver, *model, [&](const CoarseGridRun& run) {
+      if (rank == 0 && !options.quiet)
+        std::printf("wallrans: coarse grid %d x %d: %s after %d iterations (%.1f s)\n", run.cells_x, run.cells_y,
+                    run.converged  ? "converged"
+                    : run.diverged ? "diverged; the case's grid starts from the uniform field"
+                                   : "iteration budget spent; its state is used",
+                    run.iterations,
+                    run.seconds);
+    });
+  }
+
   stop_requested = 0;
   std::signal(SIGTERM, request_stop);
   std::signal(SIGINT, request_stop);
@@ -335,6 +350,18 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
          << "],\n  \"model\": " << json_string(model->name()) << ",\n  \"iterations\": " << status.iteration
          << ",\n  \"converged\": " << (converged ? "true" : "false")
          << ",\n  \"stopped_early\": " << (stopped ? "true" : "false")
+         << ",\n  \"coarse_grids\": [";
+    // Work in fine-grid iterations: this run's iterations, plus each coarse grid's iterations
+    // weighted by its share of the cells, plus the reference iteration on this grid.
+    double work = status.iteration - first_iteration + (coarse_runs.empty() ? 0 : 1);
+    for (size_t k = 0; k < coarse_runs.size(); ++k) {
+      const CoarseGridRun& c = coarse_runs[k];
+      json << (k ? ", " : "") << "{\"cells\": [" << c.cells_x << ", " << c.cells_y
+           << "], \"iterations\": " << c.iterations << ", \"converged\": " << (c.converged ? "true" : "false")
+           << ", \"seconds\": " << json_number(c.seconds) << "}";
+      work += double(c.iterations + c.reference_iterations) * c.cells_x * c.cells_y / (double(grid.cells_x()) * grid.cells_y());
+    }
+    json << "],\n  \"work_in_fine_grid_iterations\": " << json_number(work)
          << ",\n  \"residuals\": {\"u\": " << json_number(status.normalised.u)
          << ", \"v\": " << json_number(status.normalised.v)
          << ", \"continuity\": " << json_number(status.normalised.continuity)

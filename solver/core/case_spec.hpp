@@ -78,6 +78,12 @@ struct IterationSpec {
   /// iteration count does not grow with wall-normal refinement.
   double relax_diffusive_part = 0.1;
   int pressure_setup_every = 10;  ///< rebuild the pressure preconditioner every N outer iterations, >= 1
+  /// Nested start: solve first on this many grids made by dropping every other grid line (in
+  /// each direction that has an even cell count), coarsest first, each to coarse_residual_drop,
+  /// and start each finer grid from the interpolated solution. 0: start on the case's grid.
+  int coarse_grids = 0;
+  double coarse_residual_drop = 1e-3;
+  int coarse_max = 300;  ///< iteration budget of each coarse grid, >= 1
   ConvectionScheme convection = ConvectionScheme::bounded_linear_upwind;
   int report_every = 50;      ///< terminal residual line every N iterations (0 = never)
   std::string petsc_options;  ///< extra PETSc options, e.g. "-pressure_ksp_rtol 0.01"

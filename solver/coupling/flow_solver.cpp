@@ -81,21 +81,7 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
       if (grid.has_north(j)) flux_n_(i, j) = dot(spec.flow.initial_velocity, grid.north_face(i, j).area);
     }
   }
-  update_velocity_boundary_values();
-  for (size_t k = 0; k < bfaces_.size(); ++k) {
-    const BoundaryFace& f = bfaces_[k];
-    switch (condition(f).flux_prediction()) {
-      case FluxPrediction::zero:
-        bflux_[k] = 0.0;
-        break;
-      case FluxPrediction::prescribed:
-        bflux_[k] = u_b_[k] * f.area.x + v_b_[k] * f.area.y;
-        break;
-      case FluxPrediction::rhie_chow:
-        bflux_[k] = dot(vel_(f.i, f.j), f.area);  // no pressure field yet
-        break;
-    }
-  }
+  predict_boundary_fluxes_from_velocity();
   flux_e_.exchange();
   flux_n_.exchange();
   flux_e_old_ = flux_e_;
@@ -157,6 +143,53 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
     c->north = Field(grid);
     c->boundary.assign(bfaces_.size(), 0.0);
   }
+}
+
+void FlowSolver::predict_boundary_fluxes_from_velocity() {
+  update_velocity_boundary_values();
+  for (size_t k = 0; k < bfaces_.size(); ++k) {
+    const BoundaryFace& f = bfaces_[k];
+    switch (condition(f).flux_prediction()) {
+      case FluxPrediction::zero:
+        bflux_[k] = 0.0;
+        break;
+      case FluxPrediction::prescribed:
+        bflux_[k] = u_b_[k] * f.area.x + v_b_[k] * f.area.y;
+        break;
+      case FluxPrediction::rhie_chow:
+        bflux_[k] = dot(vel_(f.i, f.j), f.area);  // no pressure field yet
+        break;
+    }
+  }
+}
+
+void FlowSolver::initialised_from_fields() {
+  vel_.exchange();
+  p_.exchange();
+  grad_p_.exchange();
+  // Face fluxes from the linearly interpolated velocity; the Rhie-Chow memory term starts at zero.
+  std::fill(memory_.data().begin(), memory_.data().end(), 0.0);
+  for_each_interior_face(
+      grid_,
+      [&](int i, int j) {
+        const FaceGeometry& f = grid_.east_face(i, j);
+        flux_e_(i, j) = dot(f.wl * vel_(i, j) + (1.0 - f.wl) * vel_(i + 1, j), f.area);
+      },
+      [&](int i, int j) {
+        const FaceGeometry& f = grid_.north_face(i, j);
+        flux_n_(i, j) = dot(f.wl * vel_(i, j) + (1.0 - f.wl) * vel_(i, j + 1), f.area);
+      });
+  flux_e_.exchange();
+  flux_n_.exchange();
+  predict_boundary_fluxes_from_velocity();
+  flux_e_old_ = flux_e_;
+  flux_n_old_ = flux_n_;
+  bflux_old_ = bflux_;
+  vel_old_ = vel_;
+  iteration_ = 0;
+  references_given_ = true;
+  preconditioner_ready_ = false;
+  velocity_gradients_current_ = false;
 }
 
 void FlowSolver::update_velocity_boundary_values() {
@@ -252,14 +285,15 @@ IterationStatus FlowSolver::iterate() {
   // (common practice). Continuity: the mean over cells of each cell's mass imbalance relative to
   // U_ref times its half perimeter, so the standard does not tighten as the grid is refined (an
   // L1 sum over cells divided by one U_ref L_ref would); the initial imbalance can be zero.
-  if (iteration_ <= 5) reference_.u = std::max({reference_.u, status.absolute.u, status.absolute.v});
+  const bool measure_references = iteration_ <= 5 && !references_given_;
+  if (measure_references) reference_.u = std::max({reference_.u, status.absolute.u, status.absolute.v});
   const double momentum_ref = reference_.u > 0.0 ? reference_.u : 1.0;
   status.normalised = {status.absolute.u / momentum_ref, status.absolute.v / momentum_ref,
                        continuity_per_cell_};
   status.model_absolute = model_.residuals();
   model_reference_.resize(status.model_absolute.size(), 0.0);
   for (size_t k = 0; k < status.model_absolute.size(); ++k) {
-    if (iteration_ <= 5) model_reference_[k] = std::max(model_reference_[k], status.model_absolute[k].value);
+    if (measure_references) model_reference_[k] = std::max(model_reference_[k], status.model_absolute[k].value);
     status.model_normalised.push_back(model_reference_[k] > 0.0
                                           ? status.model_absolute[k].value / model_reference_[k]
                                           : status.model_absolute[k].value);

@@ -103,6 +103,11 @@ class FlowSolver {
   SolverRestartState restart_state();
   /// Collective: refreshes ghosts and derived data after a restart read.
   void restarted();
+  /// Collective: starts from the velocity, pressure and pressure gradient written into the
+  /// restart_state() cells (e.g. interpolated from a coarser grid) at iteration 0: face fluxes
+  /// from the interpolated velocity; the residual references measured so far (e.g. by one
+  /// iteration from the uniform start) are kept and no longer updated.
+  void initialised_from_fields();
 
  private:
   /// Momentum terms of one interior face.
@@ -118,6 +123,7 @@ class FlowSolver {
     std::vector<double> boundary;
   };
   void update_velocity_boundary_values();
+  void predict_boundary_fluxes_from_velocity();
   void update_velocity_gradients();
   void update_pressure_gradient_and_boundary_values();
   void assemble_momentum(ResidualNorms& residual);
@@ -160,6 +166,7 @@ class FlowSolver {
   bool velocity_gradients_current_ = false;  // grad_u_, grad_v_ belong to vel_ and u_b_, v_b_
   std::vector<double> continuity_scale_;     // 1 / (U_ref half perimeter) per owned cell, owned order
   double continuity_per_cell_ = 0.0;         // mean relative mass imbalance of the last iteration
+  bool references_given_ = false;            // residual references set by initialised_from_fields()
 
   VectorField vel_, vel_old_, grad_u_, grad_v_, grad_p_, grad_pc_;
   // Interior-face fluxes: flux_e_(i, j) through the face between (i, j) and (i + 1, j),

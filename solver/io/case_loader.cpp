@@ -336,7 +336,8 @@ TurbulenceSpec read_turbulence(const Value& value) {
 IterationSpec read_iterations(const Value& value) {
   const Section section = value.section({"coupling", "max", "residual_drop", "relax_velocity",
                                          "relax_pressure", "relax_diffusive_part", "pressure_setup_every",
-                                         "convection", "report_every", "petsc_options"});
+                                         "coarse_grids", "coarse_residual_drop", "coarse_max", "convection", "report_every",
+                                         "petsc_options"});
   IterationSpec iterations;
   if (const auto coupling = section.find("coupling")) {
     iterations.coupling = read_enum(*coupling, all_couplings);
@@ -359,6 +360,13 @@ IterationSpec read_iterations(const Value& value) {
   iterations.pressure_setup_every =
       integer_or(section, "pressure_setup_every", iterations.pressure_setup_every, "an integer >= 1",
                  [](int n) { return n >= 1; });
+  iterations.coarse_grids = integer_or(section, "coarse_grids", iterations.coarse_grids,
+                                       "an integer in [0, 6]", [](int n) { return n >= 0 && n <= 6; });
+  iterations.coarse_residual_drop =
+      number_or(section, "coarse_residual_drop", iterations.coarse_residual_drop, "a number in (0, 1)",
+                [](double x) { return x > 0.0 && x < 1.0; });
+  iterations.coarse_max = integer_or(section, "coarse_max", iterations.coarse_max, "an integer >= 1",
+                                     [](int n) { return n >= 1; });
   if (const auto scheme = section.find("convection")) iterations.convection = read_enum(*scheme, all_schemes);
   iterations.report_every = integer_or(section, "report_every", iterations.report_every, "an integer >= 0",
                                        [](int n) { return n >= 0; });
@@ -528,6 +536,9 @@ std::string resolved_case_yaml(const CaseSpec& spec) {
   put(out, "relax_pressure", iterations.relax_pressure);
   put(out, "relax_diffusive_part", iterations.relax_diffusive_part);
   put(out, "pressure_setup_every", iterations.pressure_setup_every);
+  put(out, "coarse_grids", iterations.coarse_grids);
+  put(out, "coarse_residual_drop", iterations.coarse_residual_drop);
+  put(out, "coarse_max", iterations.coarse_max);
   put(out, "convection", name_of(iterations.convection));
   put(out, "report_every", iterations.report_every);
   put_text(out, "petsc_options", iterations.petsc_options);
