@@ -20,12 +20,15 @@ ScalarTransport::ScalarTransport(const Grid& grid, const BoundaryMap& boundaries
       scheme_(scheme),
       faces_(owned_boundary_faces(grid, boundaries.faces())),
       cell_faces_(boundary_faces_by_cell(grid, faces_)),
+      solid_(boundaries.solid().ghosted_mask(grid)),
+      has_solid_(boundaries.solid().any()),
       phi_b_(faces_.size(), 0.0),
       grad_(grid),
       terms_e_(grid.n_ghosted()),
       terms_n_(grid.n_ghosted()),
       matrix_(grid.dm()) {
-  lsq_ = std::make_unique<LeastSquaresGradient>(grid, faces_, [](const BoundaryFace&) { return true; });
+  lsq_ = std::make_unique<LeastSquaresGradient>(
+      grid, faces_, [](const BoundaryFace&) { return true; }, solid_);
   check_petsc(DMCreateGlobalVector(grid.dm(), rhs_.out()));
   check_petsc(DMCreateGlobalVector(grid.dm(), solution_.out()));
   check_petsc(KSPCreate(grid.comm(), ksp_.out()));
@@ -69,15 +72,18 @@ void ScalarTransport::compute_face_terms(const MeanFlowView& flow, const ScalarE
     return FaceTerms{gamma_f * face.k, gamma_f * dot(face.cross, face.wl * gl + (1.0 - face.wl) * gr) -
                                            flux * (phi_f - phi_upwind)};
   };
+  // A face of a solid cell has no terms (and no flux), so the rows leave it out.
   for_each_interior_face(
       grid_,
       [&](int i, int j) {
-        const size_t l = grid_.local(i, j);
-        terms_e_[l] = face_terms(l, grid_.local(i + 1, j), grid_.east_face(i, j), flow.flux_east[l]);
+        const size_t l = grid_.local(i, j), r = grid_.local(i + 1, j);
+        terms_e_[l] =
+            is_closed(l, r) ? FaceTerms{} : face_terms(l, r, grid_.east_face(i, j), flow.flux_east[l]);
       },
       [&](int i, int j) {
-        const size_t l = grid_.local(i, j);
-        terms_n_[l] = face_terms(l, grid_.local(i, j + 1), grid_.north_face(i, j), flow.flux_north[l]);
+        const size_t l = grid_.local(i, j), r = grid_.local(i, j + 1);
+        terms_n_[l] =
+            is_closed(l, r) ? FaceTerms{} : face_terms(l, r, grid_.north_face(i, j), flow.flux_north[l]);
       });
 }
 
@@ -101,6 +107,12 @@ double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
       const size_t c = grid_.local(i, j);
       const double volume = grid_.volume(c);
       MatrixRow row;
+      if (has_solid_ && solid_[c]) {
+        row.centre = 1.0;  // identity row, zero right-hand side: phi = 0 in solid cells
+        b[j][i] = 0.0;
+        write_row(grid_, fill, i, j, row);
+        continue;
+      }
       double diag = -(*eq.source_p)[c] * volume;
       double diffusive = 0.0;  // the diffusion share of diag
       double rhs = (*eq.source_u)[c] * volume;

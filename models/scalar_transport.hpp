@@ -36,7 +36,8 @@ class ScalarTransport {
                   const std::string& prefix);
 
   /// Collective: one implicit relaxed step. Returns the L1 norm of the unrelaxed residual before
-  /// the step (in the equation's units times volume).
+  /// the step (in the equation's units times volume) over the fluid cells. Solid cells get phi = 0
+  /// (identity rows with zero right-hand side).
   double solve(const MeanFlowView& flow, ScalarEquation& equation);
 
   /// Least-squares gradient of the last solved phi (owned and ghost cells, before the step).
@@ -58,6 +59,9 @@ class ScalarTransport {
   ConvectionScheme scheme_;
   std::vector<BoundaryFace> faces_;
   std::vector<std::array<int, 4>> cell_faces_;
+  std::vector<unsigned char> solid_;  // 1 for solid cells (ghosted range)
+  bool has_solid_ = false;
+  bool is_closed(size_t l, size_t r) const { return has_solid_ && (solid_[l] | solid_[r]) != 0; }
   std::unique_ptr<LeastSquaresGradient> lsq_;
   std::vector<double> phi_b_;  // boundary values (faces_ order)
   std::function<double(Vec2)> boundary_function_;

@@ -114,7 +114,7 @@ void write_profiles(const CaseSpec& spec, const FlowSolver& solver, const std::f
     const Vec2 normal = (1.0 / norm(b - a)) * Vec2{-(b - a).y, (b - a).x};  // into the domain
     double tau = 0.0;
     for (const auto& w : solver.wall_samples())
-      if (w.side == Side::bottom && w.index == column) tau = w.shear_stress;
+      if (!w.on_solid && w.side == Side::bottom && w.index == column) tau = w.shear_stress;
     double tau_all = 0.0;
     MPI_Allreduce(&tau, &tau_all, 1, MPI_DOUBLE, MPI_SUM, comm);
     const double u_tau = std::sqrt(std::abs(tau_all));
@@ -236,7 +236,8 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
   }
   auto fields = [&](const std::string& basename) {
     std::vector<NamedScalar> scalars{{"pressure", &solver.pressure()},
-                                     {"eddy_viscosity", &solver.eddy_viscosity()}};
+                                     {"eddy_viscosity", &solver.eddy_viscosity()},
+                                     {"solid", &solver.solid()}};
     for (const auto& [name, field] : model->output_fields()) scalars.push_back({name, field});
     write_vtk_fields(grid, scalars, {{"velocity", &solver.velocity()}}, dir.string(), basename);
   };

@@ -2,6 +2,7 @@
 // tests; the solver core only reads it. All quantities are SI, density is 1 (kinematic form).
 #pragma once
 
+#include <array>
 #include <optional>
 #include <string>
 #include <vector>
@@ -55,6 +56,16 @@ struct BoundarySegmentSpec {
   Vec2 velocity{0.0, 0.0};         ///< wall velocity, inflow velocity or velocity entering an opening [m/s]
   std::optional<double> pressure;  ///< outflow/opening static pressure; default flow.reference_pressure
   int line = 0;                    ///< source line in the case file, for messages (0 = unknown)
+};
+
+/// A block of cells taken out of the flow (blanked). A cell is in the region when its indices lie
+/// in every given index range and its centre (the mean of its four corner nodes) in every given
+/// coordinate range; an absent range does not restrict. Every face between a fluid cell and a
+/// solid cell is a no-slip wall at rest.
+struct SolidRegionSpec {
+  std::optional<std::array<int, 2>> i, j;     ///< cell index ranges [first, last], inclusive, from 0
+  std::optional<std::array<double, 2>> x, y;  ///< coordinate ranges [min, max] of the cell centre [m]
+  int line = 0;                               ///< source line in the case file, for messages
 };
 
 enum class PeriodicAxis { none, x };
@@ -125,6 +136,7 @@ struct CaseSpec {
   FlowSpec flow;
   GridSpec grid;
   std::vector<BoundarySegmentSpec> boundaries;
+  std::vector<SolidRegionSpec> solid_regions;  ///< blanked cells; empty: every cell is fluid
   PeriodicSpec periodic;
   TurbulenceSpec turbulence;
   IterationSpec iterations;

@@ -57,6 +57,11 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
       a_pc_setup_(grid.dm()),
       d_setup_(grid) {
   has_pressure_boundary_ = conditions_.has_fixed_pressure();
+  solid_ = boundaries.solid().ghosted_mask(grid);
+  has_solid_ = boundaries.solid().any();
+  n_fluid_ = static_cast<double>(grid.cells_x()) * grid.cells_y() - boundaries.solid().count();
+  solid_field_ = Field(grid);
+  set_solid_marker();
   // Global numbering of the wall faces: the wall faces in boundary-face id order.
   std::vector<int> wall_of_face(boundaries_.faces().size(), -1);
   int n_walls = 0;
@@ -67,18 +72,24 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
   wall_shear_local_.assign(static_cast<size_t>(n_walls), 0.0);
   for (const auto& f : bfaces_) wall_id_.push_back(wall_of_face[f.id]);
   bflux_.assign(bfaces_.size(), 0.0);
-  lsq_all_ = std::make_unique<LeastSquaresGradient>(grid, bfaces_, [](const BoundaryFace&) { return true; });
+  lsq_all_ = std::make_unique<LeastSquaresGradient>(
+      grid, bfaces_, [](const BoundaryFace&) { return true; }, solid_);
   lsq_pressure_ = std::make_unique<LeastSquaresGradient>(
-      grid, bfaces_, [this](const BoundaryFace& f) { return is_pressure_boundary(f); });
+      grid, bfaces_, [this](const BoundaryFace& f) { return is_pressure_boundary(f); }, solid_);
 
-  // Initial field: uniform velocity, zero pressure, fluxes from the velocity.
+  // Initial field: uniform velocity (zero in solid cells), zero pressure, fluxes from the velocity
+  // (zero through faces of solid cells).
   for (int j = grid.gy_begin(); j < grid.gy_end(); ++j) {
-    for (int i = grid.gx_begin(); i < grid.gx_end(); ++i) vel_.set(i, j, spec.flow.initial_velocity);
+    for (int i = grid.gx_begin(); i < grid.gx_end(); ++i)
+      vel_.set(i, j, is_solid(grid.local(i, j)) ? Vec2{0.0, 0.0} : spec.flow.initial_velocity);
   }
   for (int j = grid.gy_begin(); j < grid.gy_end(); ++j) {
     for (int i = grid.gx_begin(); i < grid.gx_end(); ++i) {
-      if (grid.has_east(i)) flux_e_(i, j) = dot(spec.flow.initial_velocity, grid.east_face(i, j).area);
-      if (grid.has_north(j)) flux_n_(i, j) = dot(spec.flow.initial_velocity, grid.north_face(i, j).area);
+      const size_t c = grid.local(i, j);
+      if (grid.has_east(i) && i + 1 < grid.gx_end() && !is_closed(c, grid.local(i + 1, j)))
+        flux_e_(i, j) = dot(spec.flow.initial_velocity, grid.east_face(i, j).area);
+      if (grid.has_north(j) && j + 1 < grid.gy_end() && !is_closed(c, grid.local(i, j + 1)))
+        flux_n_(i, j) = dot(spec.flow.initial_velocity, grid.north_face(i, j).area);
     }
   }
   predict_boundary_fluxes_from_velocity();
@@ -120,8 +131,22 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
   check_petsc(KSPSetOptionsPrefix(ksp_pc_.get(), "pressure_"));
   check_petsc(KSPSetFromOptions(ksp_pc_.get()));
   if (!has_pressure_boundary_) {
-    // Closed or periodic domain: p' is defined up to a constant (NUMERICS: constant null space).
-    check_petsc(MatNullSpaceCreate(grid.comm(), PETSC_TRUE, 0, nullptr, null_space_.out()));
+    // Closed or periodic domain: p' is defined up to a constant in the fluid (NUMERICS: constant
+    // null space). Solid cells have identity rows, so with them the null vector is the
+    // normalised indicator of the fluid cells.
+    if (has_solid_) {
+      check_petsc(DMCreateGlobalVector(grid.dm(), fluid_indicator_.out()));
+      PetscScalar** x = nullptr;
+      check_petsc(DMDAVecGetArray(grid.dm(), fluid_indicator_.get(), &x));
+      for (int j = grid.y_begin(); j < grid.y_end(); ++j)
+        for (int i = grid.x_begin(); i < grid.x_end(); ++i) x[j][i] = is_solid(grid.local(i, j)) ? 0.0 : 1.0;
+      check_petsc(DMDAVecRestoreArray(grid.dm(), fluid_indicator_.get(), &x));
+      check_petsc(VecNormalize(fluid_indicator_.get(), nullptr));
+      Vec indicator = fluid_indicator_.get();
+      check_petsc(MatNullSpaceCreate(grid.comm(), PETSC_FALSE, 1, &indicator, null_space_.out()));
+    } else {
+      check_petsc(MatNullSpaceCreate(grid.comm(), PETSC_TRUE, 0, nullptr, null_space_.out()));
+    }
     check_petsc(MatSetNullSpace(a_pc_.mat(), null_space_.get()));
     check_petsc(MatSetNullSpace(a_pc_setup_.mat(), null_space_.get()));
   }
@@ -301,6 +326,10 @@ IterationStatus FlowSolver::iterate() {
   return status;
 }
 
+void FlowSolver::set_solid_marker() {
+  for (size_t c = 0; c < solid_field_.data().size(); ++c) solid_field_[c] = is_solid(c) ? 1.0 : 0.0;
+}
+
 SolverRestartState FlowSolver::restart_state() {
   SolverRestartState state;
   state.cells = {{"velocity_x", &vel_.x},
@@ -311,6 +340,7 @@ SolverRestartState FlowSolver::restart_state() {
                  {"flux_east", &flux_e_},
                  {"flux_north", &flux_n_},
                  {"pressure_setup_coefficient", &d_setup_}};
+  if (has_solid_) state.cells.push_back({"solid", &solid_field_});
   state.boundary = {{"boundary_flux", &bflux_}};
   for (const BoundaryFace& f : bfaces_) state.boundary_ids.push_back(f.id);
   state.n_boundary_faces = static_cast<int>(boundaries_.faces().size());
@@ -323,6 +353,22 @@ SolverRestartState FlowSolver::restart_state() {
 }
 
 void FlowSolver::restarted() {
+  if (has_solid_) {
+    // The boundary arrays are per boundary-face id, and the ids of the faces next to solid cells
+    // follow the solid cells: a checkpoint of other solid regions would put values on the wrong
+    // faces.
+    double differing = 0.0;
+    for (int j = grid_.y_begin(); j < grid_.y_end(); ++j)
+      for (int i = grid_.x_begin(); i < grid_.x_end(); ++i)
+        differing += solid_field_(i, j) != (is_solid(grid_.local(i, j)) ? 1.0 : 0.0) ? 1.0 : 0.0;
+    differing = grid_.global_sum(differing);
+    set_solid_marker();
+    if (differing > 0.0) {
+      throw InputError(case_location(spec_, spec_.solid_regions.front().line) +
+                       ": key 'solid_regions': expected the solid cells of the checkpoint, got " +
+                       std::to_string(static_cast<long long>(differing)) + " cells that differ");
+    }
+  }
   d_setup_.exchange();
   preconditioner_ready_ = false;
   velocity_gradients_current_ = false;  // recomputed from the restored velocity and boundary fluxes
@@ -423,7 +469,7 @@ std::vector<WallSample> FlowSolver::wall_samples() const {
     const Vec2 n = (1.0 / norm(f.area)) * f.area;
     const double tau = wall_shear_stress(k);
     const double s1 = dot(f.centre - grid_.centre(f.i, f.j), n);
-    out.push_back({f.side, f.index, f.centre, tau, tau / dynamic,
+    out.push_back({f.side, f.index, f.on_solid, f.centre, tau, tau / dynamic,
                    (p_b_[k] - spec_.flow.reference_pressure) / dynamic, s1});
   }
   return out;

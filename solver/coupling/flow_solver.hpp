@@ -37,8 +37,9 @@ struct IterationStatus {
 
 /// Wall data of one no-slip wall face owned by this rank.
 struct WallSample {
-  Side side;
-  int index;
+  Side side;      ///< block side, or for a face next to a solid cell the side of its fluid cell
+  int index;      ///< position along the side (i for bottom/top, j for left/right)
+  bool on_solid;  ///< the face lies between a fluid and a solid cell
   Vec2 centre;
   double shear_stress;         ///< nu dU_t/dn at the wall, sign along the tangent with t.x >= 0 [m^2/s^2]
   double cf;                   ///< 2 tau / U_ref^2
@@ -95,13 +96,17 @@ class FlowSolver {
   /// [m^2/s], positive out of the domain (same order).
   const std::vector<BoundaryFace>& boundary_faces() const { return bfaces_; }
   const std::vector<double>& boundary_fluxes() const { return bflux_; }
-  /// |tau_w| of every no-slip wall face of the domain (order: left, right, bottom, top sides,
-  /// increasing index), the same on every rank; refreshed each iteration.
+  /// |tau_w| of every no-slip wall face of the domain (boundary-face id order: block sides, then
+  /// faces next to solid cells), the same on every rank; refreshed each iteration.
   const std::vector<double>& wall_shear() const { return wall_shear_; }
+  /// 1 in solid cells, 0 in fluid cells (ghosted range), for output.
+  const Field& solid() const { return solid_field_; }
   /// The solver's part of a checkpoint (the model's part is TurbulenceModel::restart_state()).
+  /// With solid cells it holds the solid marker too, so a restart can check it.
   /// After reading values into it, call restarted().
   SolverRestartState restart_state();
-  /// Collective: refreshes ghosts and derived data after a restart read.
+  /// Collective: refreshes ghosts and derived data after a restart read. Throws InputError on
+  /// every rank if the checkpoint's solid cells differ from the case's.
   void restarted();
   /// Collective: starts from the velocity, pressure and pressure gradient written into the
   /// restart_state() cells (e.g. interpolated from a coarser grid) at iteration 0: face fluxes
@@ -139,6 +144,11 @@ class FlowSolver {
   double normal_derivative(const Field& phi, const VectorField& grad, double phi_b,
                            const BoundaryFace& face) const;
   const BoundaryCondition& condition(const BoundaryFace& face) const { return conditions_.of(face); }
+  /// Solid cells (ghosted index); a face with a solid cell on either side carries no flux or
+  /// stress (the fluid cell's side of it is a boundary face).
+  bool is_solid(size_t local) const { return has_solid_ && solid_[local] != 0; }
+  bool is_closed(size_t l, size_t r) const { return has_solid_ && (solid_[l] | solid_[r]) != 0; }
+  void set_solid_marker();
   bool is_pressure_boundary(const BoundaryFace& face) const {
     return condition(face).pressure_role() == PressureRole::fixed;
   }
@@ -151,6 +161,9 @@ class FlowSolver {
   TurbulenceModel& model_;
   std::vector<BoundaryFace> bfaces_;
   std::vector<std::array<int, 4>> cell_faces_;  // boundary faces of each owned cell
+  std::vector<unsigned char> solid_;            // 1 for solid cells (ghosted range)
+  bool has_solid_ = false;                      // the case has solid cells
+  double n_fluid_ = 0.0;                        // fluid cells of the whole grid
   std::function<Vec2(Vec2)> source_, boundary_velocity_;
   std::function<double(Vec2, Vec2)> boundary_flux_fn_;
   void refresh_wall_shear();
@@ -172,6 +185,7 @@ class FlowSolver {
   // Interior-face fluxes: flux_e_(i, j) through the face between (i, j) and (i + 1, j),
   // flux_n_(i, j) between (i, j) and (i, j + 1); boundary faces are in bflux_.
   Field p_, pc_, nu_eff_, d_rc_, d_corr_, memory_, flux_e_, flux_n_, flux_e_old_, flux_n_old_;
+  Field solid_field_;                             // 1 in solid cells (output, and checked on restart)
   std::vector<double> u_b_, v_b_, p_b_, zero_b_;  // boundary values (bfaces_ order)
   std::unique_ptr<LeastSquaresGradient> lsq_all_, lsq_pressure_;
   std::vector<double> rhs_u_, rhs_v_;  // owned order
@@ -186,6 +200,7 @@ class FlowSolver {
   OwnedVec b_vec_, x_vec_;
   OwnedKsp ksp_mom_, ksp_pc_;
   OwnedNullSpace null_space_;
+  OwnedVec fluid_indicator_;  // null vector of p' in a closed domain with solid cells
   IterationStages stages_;
   ResidualNorms reference_;
   std::vector<double> model_reference_;

@@ -71,15 +71,18 @@ double FlowSolver::normal_derivative(const Field& phi, const VectorField& grad, 
 }
 
 void FlowSolver::compute_face_terms() {
+  // A face of a solid cell has no terms (its flux is zero too), so the rows below leave it out.
   for_each_interior_face(
       grid_,
       [&](int i, int j) {
-        const size_t l = grid_.local(i, j);
-        terms_e_[l] = interior_face_terms(l, grid_.local(i + 1, j), grid_.east_face(i, j), flux_e_[l]);
+        const size_t l = grid_.local(i, j), r = grid_.local(i + 1, j);
+        terms_e_[l] =
+            is_closed(l, r) ? FaceTerms{} : interior_face_terms(l, r, grid_.east_face(i, j), flux_e_[l]);
       },
       [&](int i, int j) {
-        const size_t l = grid_.local(i, j);
-        terms_n_[l] = interior_face_terms(l, grid_.local(i, j + 1), grid_.north_face(i, j), flux_n_[l]);
+        const size_t l = grid_.local(i, j), r = grid_.local(i, j + 1);
+        terms_n_[l] =
+            is_closed(l, r) ? FaceTerms{} : interior_face_terms(l, r, grid_.north_face(i, j), flux_n_[l]);
       });
 }
 
@@ -100,6 +103,14 @@ void FlowSolver::assemble_momentum(ResidualNorms& residual) {
       const double volume = grid_.volume(c);
       const Vec2 xp = grid_.centre(c);
       MatrixRow row;
+      if (is_solid(c)) {
+        // Identity row, zero right-hand side: the velocity stays zero, and no face couples to it.
+        row.centre = 1.0;
+        rhs_u_[o] = rhs_v_[o] = 0.0;
+        d_rc_[c] = d_corr_[c] = memory_[c] = 0.0;
+        write_row(grid_, fill, i, j, row);
+        continue;
+      }
       double diag = 0.0, sum_nb = 0.0, diffusive = 0.0;  // diffusive: the diffusion share of diag
       const Vec2 gp = grad_p_[c];
       double bu = volume * (body.x - gp.x), bv = volume * (body.y - gp.y);

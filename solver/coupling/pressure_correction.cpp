@@ -36,10 +36,15 @@ void FlowSolver::predict_fluxes() {
   for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
     for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
       const size_t c = grid_.local(i, j);
-      if (grid_.has_east(i))
-        flux_e_[c] = interior_flux(c, grid_.local(i + 1, j), grid_.east_face(i, j), flux_e_old_[c]);
-      if (grid_.has_north(j))
-        flux_n_[c] = interior_flux(c, grid_.local(i, j + 1), grid_.north_face(i, j), flux_n_old_[c]);
+      // No flow through a face of a solid cell.
+      if (grid_.has_east(i)) {
+        const size_t r = grid_.local(i + 1, j);
+        flux_e_[c] = is_closed(c, r) ? 0.0 : interior_flux(c, r, grid_.east_face(i, j), flux_e_old_[c]);
+      }
+      if (grid_.has_north(j)) {
+        const size_t r = grid_.local(i, j + 1);
+        flux_n_[c] = is_closed(c, r) ? 0.0 : interior_flux(c, r, grid_.north_face(i, j), flux_n_old_[c]);
+      }
     }
   }
   for (size_t k = 0; k < bfaces_.size(); ++k) {
@@ -73,9 +78,10 @@ void FlowSolver::predict_fluxes() {
 
 void FlowSolver::pressure_coefficients(const Field& d, PressureCoefficients& out) const {
   // A_f = d_f |S|^2 / (S . d): the face-flux response to the p' difference across the face; at a
-  // fixed-pressure face the difference is taken to the face centre, where p' = 0.
+  // fixed-pressure face the difference is taken to the face centre, where p' = 0. Zero at a face
+  // of a solid cell (no flux there).
   auto coefficient = [&](size_t l, size_t r, const FaceGeometry& face) {
-    return (face.wl * d[l] + (1.0 - face.wl) * d[r]) * face.k;
+    return is_closed(l, r) ? 0.0 : (face.wl * d[l] + (1.0 - face.wl) * d[r]) * face.k;
   };
   for_each_interior_face(
       grid_,
@@ -111,6 +117,7 @@ void FlowSolver::assemble_pressure_matrix(const PressureCoefficients& c, Stencil
       for (int slot : cell_faces_[grid_.owned(i, j)]) {
         if (slot >= 0) row.centre += c.boundary[slot];  // zero unless the pressure is fixed there
       }
+      if (is_solid(grid_.local(i, j))) row.centre = 1.0;  // identity row (every face coefficient is 0)
       write_row(grid_, fill, i, j, row);
     }
   }
@@ -123,6 +130,10 @@ void FlowSolver::assemble_and_solve_pressure_correction(IterationStatus& status)
   double imbalance = 0.0, imbalance_per_cell = 0.0;
   for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
     for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
+      if (is_solid(grid_.local(i, j))) {
+        b[j][i] = 0.0;  // p' = 0 in solid cells
+        continue;
+      }
       double net_out = 0.0;
       if (grid_.has_east(i)) net_out += flux_e_(i, j);
       if (grid_.has_north(j)) net_out += flux_n_(i, j);
@@ -140,8 +151,7 @@ void FlowSolver::assemble_and_solve_pressure_correction(IterationStatus& status)
   pressure_coefficients(d_corr_, coefficients_);
   assemble_pressure_matrix(coefficients_, a_pc_);
   status.absolute.continuity = grid_.global_sum(imbalance);
-  continuity_per_cell_ =
-      grid_.global_sum(imbalance_per_cell) / (static_cast<double>(grid_.cells_x()) * grid_.cells_y());
+  continuity_per_cell_ = grid_.global_sum(imbalance_per_cell) / n_fluid_;
   if (null_space_) check_petsc(MatNullSpaceRemove(null_space_.get(), b_vec_.get()));
   const ScopedLogStage solve_stage(stages_.pressure_solve);
   // The preconditioner (algebraic multigrid, the costliest set-up of an iteration) is rebuilt
@@ -184,6 +194,7 @@ void FlowSolver::correct() {
   double p_sum = 0.0, volume = 0.0;
   for (int j = grid_.y_begin(); j < grid_.y_end(); ++j) {
     for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) {
+      if (is_solid(grid_.local(i, j))) continue;  // velocity and pressure stay zero there
       const Vec2 g = grad_pc_(i, j);
       vel_.x(i, j) -= d_corr_(i, j) * g.x;
       vel_.y(i, j) -= d_corr_(i, j) * g.y;
@@ -193,10 +204,11 @@ void FlowSolver::correct() {
     }
   }
   if (!has_pressure_boundary_) {
-    // Pressure level of a closed/periodic domain: zero volume-weighted mean.
+    // Pressure level of a closed/periodic domain: zero volume-weighted mean over the fluid.
     const double mean = grid_.global_sum(p_sum) / grid_.global_sum(volume);
     for (int j = grid_.y_begin(); j < grid_.y_end(); ++j)
-      for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) p_(i, j) -= mean;
+      for (int i = grid_.x_begin(); i < grid_.x_end(); ++i)
+        if (!is_solid(grid_.local(i, j))) p_(i, j) -= mean;
   }
   vel_.exchange();
   p_.exchange();

@@ -1,6 +1,7 @@
 #include "discretization/least_squares_gradient.hpp"
 
 #include <cmath>
+#include <utility>
 
 namespace wallrans {
 
@@ -19,8 +20,13 @@ void for_each_neighbour(const Grid& grid, int i, int j, Fn&& fn) {
 }  // namespace
 
 LeastSquaresGradient::LeastSquaresGradient(const Grid& grid, const std::vector<BoundaryFace>& faces,
-                                           const std::function<bool(const BoundaryFace&)>& include)
-    : grid_(grid), faces_(faces), fits_(grid.n_owned()), boundary_weighted_(faces.size()) {
+                                           const std::function<bool(const BoundaryFace&)>& include,
+                                           std::vector<unsigned char> solid)
+    : grid_(grid),
+      faces_(faces),
+      fits_(grid.n_owned()),
+      boundary_weighted_(faces.size()),
+      solid_(std::move(solid)) {
   for (size_t f = 0; f < faces.size(); ++f) {
     if (!include(faces[f])) continue;
     const Vec2 d = faces[f].centre - grid.centre(faces[f].i, faces[f].j);
@@ -42,8 +48,11 @@ LeastSquaresGradient::LeastSquaresGradient(const Grid& grid, const std::vector<B
         mxy += w * d.x * d.y;
         myy += w * d.y * d.y;
       };
-      for_each_neighbour(grid, i, j, [&](int, int, Vec2 d) { add(d); });
       CellFit& fit = fits_[grid.owned(i, j)];
+      if (is_solid(i, j)) continue;  // gradient zero: the inverse stays zero
+      for_each_neighbour(grid, i, j, [&](int ni, int nj, Vec2 d) {
+        if (!is_solid(ni, nj)) add(d);
+      });
       for (int s : fit.boundary) {
         if (s >= 0) add(faces[s].centre - grid.centre(i, j));
       }
@@ -73,11 +82,14 @@ void LeastSquaresGradient::compute(const Field& phi, const std::vector<double>& 
         bx += dw.x * dphi;
         by += dw.y * dphi;
       };
-      if (grid_.has_east(i)) add(grid_.east_face(i, j).d_weighted, phi[grid_.local(i + 1, j)] - p);
-      if (grid_.has_west(i)) add(-1.0 * grid_.east_face(i - 1, j).d_weighted, phi[grid_.local(i - 1, j)] - p);
-      if (grid_.has_north(j)) add(grid_.north_face(i, j).d_weighted, phi[grid_.local(i, j + 1)] - p);
-      if (grid_.has_south(j))
-        add(-1.0 * grid_.north_face(i, j - 1).d_weighted, phi[grid_.local(i, j - 1)] - p);
+      // A solid neighbour's weight is zero: it adds nothing (solid cells have a zero inverse).
+      auto fluid = [&](size_t n) { return solid_.empty() || !solid_[n]; };
+      const size_t e = grid_.local(i + 1, j), w = grid_.local(i - 1, j);
+      const size_t n = grid_.local(i, j + 1), s = grid_.local(i, j - 1);
+      if (grid_.has_east(i) && fluid(e)) add(grid_.east_face(i, j).d_weighted, phi[e] - p);
+      if (grid_.has_west(i) && fluid(w)) add(-1.0 * grid_.east_face(i - 1, j).d_weighted, phi[w] - p);
+      if (grid_.has_north(j) && fluid(n)) add(grid_.north_face(i, j).d_weighted, phi[n] - p);
+      if (grid_.has_south(j) && fluid(s)) add(-1.0 * grid_.north_face(i, j - 1).d_weighted, phi[s] - p);
       const CellFit& fit = fits_[grid_.owned(i, j)];
       for (int s : fit.boundary) {
         if (s >= 0) add(boundary_weighted_[s], phi_b[s] - p);

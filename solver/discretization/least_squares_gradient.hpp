@@ -14,8 +14,11 @@ class LeastSquaresGradient {
  public:
   /// Local. `include` selects the boundary faces whose value takes part (Dirichlet-like values);
   /// the others are left out of the fit (the value there is extrapolated from the gradient).
+  /// `solid` (SolidCells::ghosted_mask, or empty) marks solid cells: they take no part in the fit
+  /// of their neighbours, and their own gradient is zero.
   LeastSquaresGradient(const Grid& grid, const std::vector<BoundaryFace>& faces,
-                       const std::function<bool(const BoundaryFace&)>& include);
+                       const std::function<bool(const BoundaryFace&)>& include,
+                       std::vector<unsigned char> solid = {});
 
   /// Local: gradient of `phi` in the owned cells (ghosts of `phi` must be current); `phi_b` holds
   /// one value per face of `faces` (same order). Call grad.exchange() afterwards when ghost
@@ -31,6 +34,8 @@ class LeastSquaresGradient {
   const std::vector<BoundaryFace>& faces_;
   std::vector<CellFit> fits_;            // owned cells, owned order
   std::vector<Vec2> boundary_weighted_;  // d / |d|^2 from the owner centre to each included face
+  std::vector<unsigned char> solid_;     // ghosted; empty when there are no solid cells
+  bool is_solid(int i, int j) const { return !solid_.empty() && solid_[grid_.local(i, j)]; }
 };
 
 }  // namespace wallrans

@@ -7,9 +7,8 @@ namespace wallrans {
 
 namespace {
 
-std::string where(const CaseSpec& spec, int line) {
-  std::string file = spec.source_file.empty() ? std::string("case") : spec.source_file;
-  return line > 0 ? file + ":" + std::to_string(line) : file;
+bool is_flow_through(BoundaryKind kind) {
+  return kind == BoundaryKind::inflow || kind == BoundaryKind::outflow || kind == BoundaryKind::opening;
 }
 
 }  // namespace
@@ -45,15 +44,18 @@ const char* to_string(BoundaryKind kind) {
 }
 
 BoundaryMap::BoundaryMap(const CaseSpec& spec, const NodeCoordinates& nodes)
-    : segments_(spec.boundaries),
-      faces_(domain_boundary_faces(nodes, spec.periodic.axis == PeriodicAxis::x)) {
+    : segments_(spec.boundaries), solid_(spec, nodes) {
+  const bool periodic_x = spec.periodic.axis == PeriodicAxis::x;
+  // Segments are matched against every face of the block sides, those of solid cells included;
+  // a face of a solid cell needs no segment, and must not let flow in or out.
+  std::vector<BoundaryFace> side_faces = domain_boundary_faces(nodes, periodic_x);
   auto key = [](size_t s) { return "key 'boundaries[" + std::to_string(s) + "]': "; };
   for (Side side : {Side::left, Side::right, Side::bottom, Side::top}) {
     const bool along_x = side == Side::bottom || side == Side::top;
     // The faces of this side (none on a periodic side) and the coordinate of each face centre
     // along it (x for bottom/top, y for left/right).
     std::vector<BoundaryFace*> on_side;
-    for (BoundaryFace& f : faces_) {
+    for (BoundaryFace& f : side_faces) {
       if (f.side == side) on_side.push_back(&f);
     }
     const size_t n = on_side.size();
@@ -68,7 +70,7 @@ BoundaryMap::BoundaryMap(const CaseSpec& spec, const NodeCoordinates& nodes)
       if (seg.side != side) continue;
       if (first_line == 0) first_line = seg.line;
       if (n == 0) {
-        throw InputError(where(spec, seg.line) + ": " + key(s) + "expected no segment on side '" +
+        throw InputError(case_location(spec, seg.line) + ": " + key(s) + "expected no segment on side '" +
                          to_string(side) + "' (periodic.axis: x makes it periodic), got kind '" +
                          to_string(seg.kind) + "'");
       }
@@ -78,7 +80,7 @@ BoundaryMap::BoundaryMap(const CaseSpec& spec, const NodeCoordinates& nodes)
         if (seg.to && mid[k] > *seg.to) continue;
         const int taken = on_side[k]->segment;
         if (taken >= 0) {
-          throw InputError(where(spec, seg.line) + ": " + key(s) +
+          throw InputError(case_location(spec, seg.line) + ": " + key(s) +
                            "expected faces not covered by another segment, got "
                            "an overlap with boundaries[" +
                            std::to_string(taken) + "] (line " + std::to_string(segments_[taken].line) +
@@ -89,7 +91,7 @@ BoundaryMap::BoundaryMap(const CaseSpec& spec, const NodeCoordinates& nodes)
         ++covered;
       }
       if (covered == 0) {
-        throw InputError(where(spec, seg.line) + ": " + key(s) +
+        throw InputError(case_location(spec, seg.line) + ": " + key(s) +
                          "expected 'from'/'to' enclosing at least one face "
                          "centre of side '" +
                          to_string(side) + "' (" + std::to_string(mid.front()) + " to " +
@@ -97,12 +99,45 @@ BoundaryMap::BoundaryMap(const CaseSpec& spec, const NodeCoordinates& nodes)
       }
     }
     for (size_t k = 0; k < n; ++k) {
-      if (on_side[k]->segment < 0) {
-        throw InputError(where(spec, first_line) + ": key 'boundaries': expected segments covering side '" +
-                         to_string(side) + "' completely, got no segment for the face at " +
-                         (along_x ? "x = " : "y = ") + std::to_string(mid[k]));
+      const BoundaryFace& f = *on_side[k];
+      const int region = solid_.region(f.i, f.j);
+      if (f.segment < 0 && region < 0) {
+        throw InputError(case_location(spec, first_line) +
+                         ": key 'boundaries': expected segments covering side '" + to_string(side) +
+                         "' completely, got no segment for the face at " + (along_x ? "x = " : "y = ") +
+                         std::to_string(mid[k]));
+      }
+      if (region >= 0 && f.segment >= 0 && is_flow_through(segments_[f.segment].kind)) {
+        const BoundarySegmentSpec& seg = segments_[f.segment];
+        throw InputError(case_location(spec, spec.solid_regions[region].line) + ": key 'solid_regions[" +
+                         std::to_string(region) + "]': expected no solid cell at a face of an " +
+                         to_string(seg.kind) + " segment, got cell (" + std::to_string(f.i) + ", " +
+                         std::to_string(f.j) + ") at the face of boundaries[" + std::to_string(f.segment) +
+                         "] (line " + std::to_string(seg.line) + ") at " + (along_x ? "x = " : "y = ") +
+                         std::to_string(mid[k]));
       }
     }
+  }
+  // The faces of the fluid: side faces keep their segment, faces next to solid cells get a wall.
+  std::vector<std::vector<int>> segment_of(4);  // by side, then index along it
+  for (const BoundaryFace& f : side_faces) {
+    auto& along = segment_of[static_cast<size_t>(f.side)];
+    if (along.size() <= static_cast<size_t>(f.index)) along.resize(static_cast<size_t>(f.index) + 1, -1);
+    along[static_cast<size_t>(f.index)] = f.segment;
+  }
+  faces_ = domain_boundary_faces(nodes, periodic_x, solid_);
+  const int solid_wall = static_cast<int>(segments_.size());
+  bool has_solid_faces = false;
+  for (BoundaryFace& f : faces_) {
+    has_solid_faces = has_solid_faces || f.on_solid;
+    f.segment =
+        f.on_solid ? solid_wall : segment_of[static_cast<size_t>(f.side)][static_cast<size_t>(f.index)];
+  }
+  if (has_solid_faces) {
+    BoundarySegmentSpec wall;
+    wall.kind = BoundaryKind::wall;
+    wall.line = spec.solid_regions.front().line;
+    segments_.push_back(wall);
   }
 }
 

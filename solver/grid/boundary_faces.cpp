@@ -3,39 +3,77 @@
 
 namespace wallrans {
 
-std::vector<BoundaryFace> domain_boundary_faces(const NodeCoordinates& nodes, bool periodic_x) {
+std::vector<BoundaryFace> domain_boundary_faces(const NodeCoordinates& nodes, bool periodic_x,
+                                                const SolidCells& solid) {
   std::vector<BoundaryFace> faces;
   const int nx = nodes.cells_x, ny = nodes.cells_y;
+  auto is_fluid = [&](int i, int j) {
+    if (periodic_x) i = (i + nx) % nx;
+    return i >= 0 && i < nx && j >= 0 && j < ny && !solid.is_solid(i, j);
+  };
+  // The face of owner cell (i, j) on `side`, whose end nodes a, b run in increasing grid index.
   // Face normals as the grid computes them: (dy, -dx) towards +i along an edge running towards
   // +j, (-dy, dx) towards +j along an edge running towards +i; negated on the left and bottom.
-  auto add = [&](Side side, int index, int i, int j, int i2, int j2, bool has_second, Vec2 a, Vec2 b) {
+  // The second cell is the next one inwards, opposite the face.
+  auto add = [&](Side side, int index, int i, int j, Vec2 a, Vec2 b, bool on_solid) {
     const Vec2 edge = b - a;
     const bool along_x = side == Side::bottom || side == Side::top;
     const Vec2 towards_increasing = along_x ? Vec2{-edge.y, edge.x} : Vec2{edge.y, -edge.x};
     const bool outward_is_decreasing = side == Side::left || side == Side::bottom;
+    const int inward = outward_is_decreasing ? 1 : -1;
     BoundaryFace f;
     f.id = static_cast<int>(faces.size());
     f.i = i;
     f.j = j;
-    f.i2 = i2;
-    f.j2 = j2;
-    f.has_second = has_second;
+    f.i2 = along_x ? i : i + inward;
+    f.j2 = along_x ? j + inward : j;
+    f.has_second = is_fluid(f.i2, f.j2);
     f.area = outward_is_decreasing ? -1.0 * towards_increasing : towards_increasing;
     f.centre = 0.5 * (a + b);
     f.a = a;
     f.b = b;
     f.side = side;
     f.index = index;
+    f.on_solid = on_solid;
     faces.push_back(f);
   };
+  auto left = [&](int i, int j, bool on_solid) {
+    add(Side::left, j, i, j, nodes.at(i, j), nodes.at(i, j + 1), on_solid);
+  };
+  auto right = [&](int i, int j, bool on_solid) {
+    add(Side::right, j, i, j, nodes.at(i + 1, j), nodes.at(i + 1, j + 1), on_solid);
+  };
+  auto bottom = [&](int i, int j, bool on_solid) {
+    add(Side::bottom, i, i, j, nodes.at(i, j), nodes.at(i + 1, j), on_solid);
+  };
+  auto top = [&](int i, int j, bool on_solid) {
+    add(Side::top, i, i, j, nodes.at(i, j + 1), nodes.at(i + 1, j + 1), on_solid);
+  };
   if (!periodic_x) {
-    for (int j = 0; j < ny; ++j) add(Side::left, j, 0, j, 1, j, nx > 1, nodes.at(0, j), nodes.at(0, j + 1));
     for (int j = 0; j < ny; ++j)
-      add(Side::right, j, nx - 1, j, nx - 2, j, nx > 1, nodes.at(nx, j), nodes.at(nx, j + 1));
+      if (is_fluid(0, j)) left(0, j, false);
+    for (int j = 0; j < ny; ++j)
+      if (is_fluid(nx - 1, j)) right(nx - 1, j, false);
   }
-  for (int i = 0; i < nx; ++i) add(Side::bottom, i, i, 0, i, 1, ny > 1, nodes.at(i, 0), nodes.at(i + 1, 0));
   for (int i = 0; i < nx; ++i)
-    add(Side::top, i, i, ny - 1, i, ny - 2, ny > 1, nodes.at(i, ny), nodes.at(i + 1, ny));
+    if (is_fluid(i, 0)) bottom(i, 0, false);
+  for (int i = 0; i < nx; ++i)
+    if (is_fluid(i, ny - 1)) top(i, ny - 1, false);
+  if (!solid.any()) return faces;
+  // A neighbour that exists and is solid makes the shared face a wall of the fluid cell.
+  auto is_solid_neighbour = [&](int i, int j) {
+    if (periodic_x) i = (i + nx) % nx;
+    return i >= 0 && i < nx && j >= 0 && j < ny && solid.is_solid(i, j);
+  };
+  for (int j = 0; j < ny; ++j) {
+    for (int i = 0; i < nx; ++i) {
+      if (solid.is_solid(i, j)) continue;
+      if (is_solid_neighbour(i - 1, j)) left(i, j, true);
+      if (is_solid_neighbour(i + 1, j)) right(i, j, true);
+      if (is_solid_neighbour(i, j - 1)) bottom(i, j, true);
+      if (is_solid_neighbour(i, j + 1)) top(i, j, true);
+    }
+  }
   return faces;
 }
 

@@ -282,6 +282,48 @@ std::vector<BoundarySegmentSpec> read_boundaries(const Value& value, const FlowS
   return segments;
 }
 
+// One solid region: index ranges i, j (inclusive, within the grid) and coordinate ranges x, y of
+// the cell centre, any combination but at least one.
+SolidRegionSpec read_solid_region(const Value& entry, const GridSpec& grid) {
+  const Section section = entry.section({"i", "j", "x", "y"});
+  SolidRegionSpec region;
+  region.line = entry.line();
+  if (!section.has("i") && !section.has("j") && !section.has("x") && !section.has("y")) {
+    entry.fail("a mapping with at least one of i, j (index ranges) and x, y (coordinate ranges)");
+  }
+  auto index_range = [&](const char* key, int cells, const char* count) -> std::optional<std::array<int, 2>> {
+    const auto value = section.find(key);
+    if (!value) return std::nullopt;
+    const std::string expected = "2 integers [first, last] with 0 <= first <= last < grid." +
+                                 std::string(count) + " = " + std::to_string(cells);
+    const auto range = value->integers(2, expected, [&](int k) { return k >= 0 && k < cells; });
+    if (range[0] > range[1]) value->fail(expected);
+    return std::array<int, 2>{range[0], range[1]};
+  };
+  auto coordinate_range = [&](const char* key) -> std::optional<std::array<double, 2>> {
+    const auto value = section.find(key);
+    if (!value) return std::nullopt;
+    const std::string expected = "2 numbers [min, max] with min < max";
+    const auto range = value->numbers(2, expected);
+    if (!(range[0] < range[1])) value->fail(expected);
+    return std::array<double, 2>{range[0], range[1]};
+  };
+  region.i = index_range("i", grid.cells_x, "cells_x");
+  region.j = index_range("j", grid.cells_y, "cells_y");
+  region.x = coordinate_range("x");
+  region.y = coordinate_range("y");
+  return region;
+}
+
+std::vector<SolidRegionSpec> read_solid_regions(const Value& value, const GridSpec& grid) {
+  const std::string expected = "a non-empty list of solid regions";
+  const auto entries = value.items(expected);
+  if (entries.empty()) value.fail(expected);
+  std::vector<SolidRegionSpec> regions;
+  for (const Value& entry : entries) regions.push_back(read_solid_region(entry, grid));
+  return regions;
+}
+
 TurbulenceSpec read_turbulence(const Value& value) {
   const Section section =
       value.section({"model", "variant", "freestream_viscosity_ratio", "freestream_intensity", "outer_length",
@@ -434,6 +476,24 @@ void put_grid(YAML::Emitter& out, const GridSpec& grid) {
   out << YAML::EndMap;
 }
 
+void put_solid_regions(YAML::Emitter& out, const std::vector<SolidRegionSpec>& regions) {
+  if (regions.empty()) return;
+  out << YAML::Key << "solid_regions" << YAML::Value << YAML::BeginSeq;
+  for (const auto& region : regions) {
+    out << YAML::Flow << YAML::BeginMap;
+    for (const auto& [key, range] : {std::pair{"i", region.i}, std::pair{"j", region.j}}) {
+      if (range)
+        out << YAML::Key << key << YAML::Value << YAML::Flow << YAML::BeginSeq << (*range)[0] << (*range)[1]
+            << YAML::EndSeq;
+    }
+    for (const auto& [key, range] : {std::pair{"x", region.x}, std::pair{"y", region.y}}) {
+      if (range) put(out, key, Vec2{(*range)[0], (*range)[1]});
+    }
+    out << YAML::EndMap;
+  }
+  out << YAML::EndSeq;
+}
+
 void put_boundaries(YAML::Emitter& out, const std::vector<BoundarySegmentSpec>& segments) {
   out << YAML::Key << "boundaries" << YAML::Value << YAML::BeginSeq;
   for (const auto& segment : segments) {
@@ -453,8 +513,8 @@ void put_boundaries(YAML::Emitter& out, const std::vector<BoundarySegmentSpec>& 
 
 CaseSpec parse_case_text(const std::string& text, const std::string& source_name) {
   const Value document = yaml_reader::parse_document(text, source_name);
-  const Section top = document.section({"title", "flow", "grid", "boundaries", "periodic", "turbulence",
-                                        "iterations", "output", "checkpoint"});
+  const Section top = document.section({"title", "flow", "grid", "boundaries", "solid_regions", "periodic",
+                                        "turbulence", "iterations", "output", "checkpoint"});
   CaseSpec spec;
   spec.source_file = source_name;
   spec.title = text_or(top, "title", spec.title, false);
@@ -465,6 +525,8 @@ CaseSpec parse_case_text(const std::string& text, const std::string& source_name
   if (periodic) spec.periodic = read_periodic(*periodic, spec.grid);
   spec.boundaries = read_boundaries(top.require("boundaries", "a non-empty list of boundary segments"),
                                     spec.flow, spec.periodic, periodic ? periodic->line() : 0);
+  if (const auto solid = top.find("solid_regions"))
+    spec.solid_regions = read_solid_regions(*solid, spec.grid);
   if (const auto turbulence = top.find("turbulence")) spec.turbulence = read_turbulence(*turbulence);
   if (const auto iterations = top.find("iterations")) spec.iterations = read_iterations(*iterations);
   if (const auto output = top.find("output")) spec.output = read_output(*output);
@@ -508,6 +570,7 @@ std::string resolved_case_yaml(const CaseSpec& spec) {
 
   put_grid(out, spec.grid);
   put_boundaries(out, spec.boundaries);
+  put_solid_regions(out, spec.solid_regions);
 
   if (spec.periodic.axis != PeriodicAxis::none) {
     out << YAML::Key << "periodic" << YAML::Value << YAML::BeginMap;

@@ -111,6 +111,43 @@ std::vector<BadCase> bad_cases() {
                    with(good_case, "  cells: [8, 8]\n", "  cells: [8, 8]\n  first_cell_height: 0.5\n"),
                    "grid:",  // reported at the grid section
                    {"key 'grid.first_cell_height'"}});
+  // Solid regions: each bad one stops the run at its own line.
+  auto with_solid = [](const std::string& text, const std::string& regions) {
+    return with(text, "iterations:\n", "solid_regions:\n" + regions + "iterations:\n");
+  };
+  cases.push_back({"solid_index_beyond_the_grid",
+                   with_solid(good_case, "  - {i: [2, 8], j: [0, 3]}\n"),
+                   "i: [2, 8]",
+                   {"key 'solid_regions[0].i'", "grid.cells_x = 8", "[2, 8]"}});
+  cases.push_back({"solid_box_outside_the_grid",
+                   with_solid(good_case, "  - {j: [0, 1]}\n  - {x: [1.5, 2.0], y: [0.0, 1.0]}\n"),
+                   "x: [1.5, 2.0]",
+                   {"key 'solid_regions[1]'", "at least one cell centre", "x 0 to 1"}});
+  {
+    // A channel with an inflow on the left; the solid block touches the inflow faces.
+    const std::string flow_through =
+        with(with(good_case, "  - {side: left, kind: wall}\n",
+                  "  - {side: left, kind: inflow, velocity: [1.0, 0.0]}\n"),
+             "  - {side: right, kind: wall}\n", "  - {side: right, kind: outflow}\n");
+    cases.push_back(
+        {"solid_covering_an_inflow_face",
+         with_solid(flow_through, "  - {x: [0.0, 0.3], y: [0.0, 0.3]}\n"),
+         "x: [0.0, 0.3]",
+         {"key 'solid_regions[0]'", "inflow",
+          "boundaries[2] (line " + std::to_string(line_containing(flow_through, "inflow")) + ")"}});
+  }
+  cases.push_back({"solid_leaving_no_fluid",
+                   with_solid(good_case, "  - {j: [0, 3]}\n  - {j: [4, 7]}\n"),
+                   "j: [0, 3]",  // reported at the first region
+                   {"key 'solid_regions'", "at least one fluid cell"}});
+  cases.push_back({"solid_cutting_the_fluid_in_two",
+                   with_solid(good_case, "  - {i: [3, 4]}\n"),
+                   "i: [3, 4]",
+                   {"key 'solid_regions'", "one region connected through faces", "cut off"}});
+  cases.push_back({"solid_region_without_a_range",
+                   with_solid(good_case, "  - {}\n"),
+                   "  - {}",
+                   {"key 'solid_regions[0]'", "at least one of i, j"}});
   cases.push_back({"missing_case_file", "", "", {}, true});
   return cases;
 }

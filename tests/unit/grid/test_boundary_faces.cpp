@@ -5,8 +5,10 @@
 #include <mpi.h>
 
 #include <algorithm>
+#include <functional>
 #include <vector>
 
+#include "core/error.hpp"
 #include "grid/boundary.hpp"
 #include "grid/boundary_faces.hpp"
 #include "grid/grid.hpp"
@@ -84,6 +86,36 @@ void expect_ids_cover_the_boundary_once(const NodeCoordinates& nodes, bool perio
   }
 }
 
+// Divergence theorem: the outward area vectors of a closed cell sum to zero. For every owned
+// fluid cell, its interior faces to fluid neighbours come from the grid and its boundary faces
+// from `faces`; a missing, doubled or inward face shows.
+void expect_cells_closed(const Grid& grid, const std::vector<BoundaryFace>& faces,
+                         const std::function<bool(int, int)>& fluid) {
+  const auto by_cell = boundary_faces_by_cell(grid, faces);
+  for (int j = grid.y_begin(); j < grid.y_end(); ++j) {
+    for (int i = grid.x_begin(); i < grid.x_end(); ++i) {
+      if (!fluid(i, j)) continue;
+      Vec2 sum{0.0, 0.0};
+      if (grid.has_east(i) && fluid(i + 1, j)) sum = sum + grid.east_face(i, j).area;
+      if (grid.has_west(i) && fluid(i - 1, j)) sum = sum - grid.east_face(i - 1, j).area;
+      if (grid.has_north(j) && fluid(i, j + 1)) sum = sum + grid.north_face(i, j).area;
+      if (grid.has_south(j) && fluid(i, j - 1)) sum = sum - grid.north_face(i, j - 1).area;
+      for (int slot : by_cell[grid.owned(i, j)]) {
+        if (slot < 0) continue;
+        const BoundaryFace& f = faces[slot];
+        sum = sum + f.area;
+        // The outward normal points away from the owner's centre.
+        EXPECT_GT(dot(f.centre - grid.centre(i, j), f.area), 0.0) << i << ", " << j;
+        if (f.has_second) {
+          EXPECT_GT(dot(grid.centre(i, j) - grid.centre(f.i2, f.j2), f.area), 0.0);
+        }
+      }
+      EXPECT_NEAR(sum.x, 0.0, 1e-14) << i << ", " << j;
+      EXPECT_NEAR(sum.y, 0.0, 1e-14) << i << ", " << j;
+    }
+  }
+}
+
 }  // namespace
 
 TEST(BoundaryFaces, UniqueGlobalIdsCoverEveryFaceOnceOnAnyRankCount) {
@@ -111,33 +143,10 @@ TEST(BoundaryFaces, EachIdIsTheSameFaceOnOneRankAndOnAllRanks) {
 }
 
 TEST(BoundaryFaces, OutwardAreasCloseEveryOwnedCellWithItsInteriorFaces) {
-  // Divergence theorem: the outward area vectors of a closed cell sum to zero. The interior faces
-  // come from the grid, the boundary faces from the list; a missing, doubled or inward face shows.
   const NodeCoordinates nodes = skewed_nodes();
   const Grid grid(MPI_COMM_WORLD, nodes, false);
   const std::vector<BoundaryFace> faces = owned_boundary_faces(grid, domain_boundary_faces(nodes, false));
-  const auto by_cell = boundary_faces_by_cell(grid, faces);
-  for (int j = grid.y_begin(); j < grid.y_end(); ++j) {
-    for (int i = grid.x_begin(); i < grid.x_end(); ++i) {
-      Vec2 sum{0.0, 0.0};
-      if (grid.has_east(i)) sum = sum + grid.east_face(i, j).area;
-      if (grid.has_west(i)) sum = sum - grid.east_face(i - 1, j).area;
-      if (grid.has_north(j)) sum = sum + grid.north_face(i, j).area;
-      if (grid.has_south(j)) sum = sum - grid.north_face(i, j - 1).area;
-      for (int slot : by_cell[grid.owned(i, j)]) {
-        if (slot < 0) continue;
-        const BoundaryFace& f = faces[slot];
-        sum = sum + f.area;
-        // The outward normal points away from the owner's centre.
-        EXPECT_GT(dot(f.centre - grid.centre(i, j), f.area), 0.0) << i << ", " << j;
-        if (f.has_second) {
-          EXPECT_GT(dot(grid.centre(i, j) - grid.centre(f.i2, f.j2), f.area), 0.0);
-        }
-      }
-      EXPECT_NEAR(sum.x, 0.0, 1e-14) << i << ", " << j;
-      EXPECT_NEAR(sum.y, 0.0, 1e-14) << i << ", " << j;
-    }
-  }
+  expect_cells_closed(grid, faces, [](int, int) { return true; });
 }
 
 TEST(BoundaryFaces, EachFaceGetsTheSegmentThatCoversItsCentre) {
@@ -176,4 +185,114 @@ TEST(BoundaryFaces, EachFaceGetsTheSegmentThatCoversItsCentre) {
     }
   }
   EXPECT_TRUE(map.has_wall());
+}
+
+namespace {
+
+// The skewed box with a bump on the bottom side (cells i 3..5, j 0..2) and an island (cell column
+// i = 7, j 3..4) of solid cells; every side a wall unless `left` says otherwise.
+CaseSpec solid_case(BoundaryKind left = BoundaryKind::wall) {
+  CaseSpec spec;
+  spec.source_file = "bump.yaml";
+  spec.grid.cells_x = nx;
+  spec.grid.cells_y = ny;
+  for (Side side : {Side::left, Side::right, Side::bottom, Side::top}) {
+    BoundarySegmentSpec segment;
+    segment.side = side;
+    segment.kind = side == Side::left ? left : BoundaryKind::wall;
+    segment.line = 10 + static_cast<int>(spec.boundaries.size());
+    spec.boundaries.push_back(segment);
+  }
+  SolidRegionSpec bump, island;
+  bump.i = std::array{3, 5};
+  bump.j = std::array{0, 2};
+  bump.line = 20;
+  island.i = std::array{7, 7};
+  island.j = std::array{3, 4};
+  island.line = 21;
+  spec.solid_regions = {bump, island};
+  return spec;
+}
+
+}  // namespace
+
+TEST(BoundaryFaces, SolidCellsAddWallFacesAfterTheSidesAndDropTheirOwnSideFaces) {
+  const CaseSpec spec = solid_case();
+  const NodeCoordinates nodes = skewed_nodes();
+  const BoundaryMap map(spec, nodes);
+  const SolidCells& solid = map.solid();
+  // Sides: left 6, right 6, bottom 9 - 3 (under the bump), top 9. Next to solid cells: the bump's
+  // west, east and top faces (3 + 3 + 3) and the island's (2 + 2 + 1 + 1).
+  const int n_sides = 27, n_solid = 15;
+  ASSERT_EQ(map.faces().size(), static_cast<size_t>(n_sides + n_solid));
+  ASSERT_EQ(map.segments().size(), spec.boundaries.size() + 1);
+  const BoundarySegmentSpec& solid_wall = map.segments().back();
+  EXPECT_EQ(solid_wall.kind, BoundaryKind::wall);
+  EXPECT_EQ(solid_wall.line, 20);
+  for (const BoundaryFace& f : map.faces()) {
+    EXPECT_EQ(f.id, &f - map.faces().data());
+    EXPECT_FALSE(solid.is_solid(f.i, f.j)) << "face " << f.id << " of a solid cell";
+    EXPECT_EQ(f.on_solid, f.id >= n_sides) << f.id;
+    if (f.on_solid) {
+      EXPECT_EQ(&map.spec(f), &solid_wall) << f.id;
+    }
+    if (f.has_second) {
+      EXPECT_FALSE(solid.is_solid(f.i2, f.j2)) << f.id;
+    }
+    // The owner's neighbour across the face is solid (or absent, for side faces).
+    const int di = f.side == Side::left ? -1 : f.side == Side::right ? 1 : 0;
+    const int dj = f.side == Side::bottom ? -1 : f.side == Side::top ? 1 : 0;
+    const int ni = f.i + di, nj = f.j + dj;
+    const bool outside = ni < 0 || ni >= nx || nj < 0 || nj >= ny;
+    EXPECT_EQ(outside, !f.on_solid) << f.id;
+    if (!outside) {
+      EXPECT_TRUE(solid.is_solid(ni, nj)) << f.id;
+    }
+  }
+  // Cell (7, 5) sits on the island: its top (side) face has a solid second cell, its bottom face
+  // (on the island) none above j = 5; neither has a second cell.
+  for (const BoundaryFace& f : map.faces()) {
+    if (f.i == 7 && f.j == 5) {
+      EXPECT_FALSE(f.has_second) << f.id;
+    }
+  }
+  EXPECT_TRUE(map.has_wall());
+}
+
+TEST(BoundaryFaces, FacesNextToSolidCellsCloseEveryFluidCellOnAnyRankCount) {
+  const NodeCoordinates nodes = skewed_nodes();
+  const BoundaryMap map(solid_case(), nodes);
+  const Grid grid(MPI_COMM_WORLD, nodes, false);
+  const std::vector<BoundaryFace> faces = owned_boundary_faces(grid, map.faces());
+  std::vector<int> ids = all_owned_ids(faces);
+  std::sort(ids.begin(), ids.end());
+  ASSERT_EQ(ids.size(), map.faces().size()) << "a face is missing or owned twice";
+  for (size_t id = 0; id < ids.size(); ++id) EXPECT_EQ(ids[id], static_cast<int>(id));
+  expect_cells_closed(grid, faces, [&](int i, int j) { return !map.solid().is_solid(i, j); });
+}
+
+TEST(BoundaryFaces, SideFacesOfSolidCellsNeedNoSegmentButMustNotLetFlowIn) {
+  CaseSpec spec = solid_case();
+  // The bottom segments leave the faces under the bump (x about 0.6 to 1.2) uncovered.
+  spec.boundaries[2].to = 0.55;
+  BoundarySegmentSpec right_part = spec.boundaries[2];
+  right_part.from = 1.25;
+  right_part.to.reset();
+  spec.boundaries.push_back(right_part);
+  EXPECT_NO_THROW(BoundaryMap(spec, skewed_nodes()));
+
+  // A solid cell at an inflow face.
+  spec = solid_case(BoundaryKind::inflow);
+  spec.solid_regions[0].i = std::array{0, 5};
+  try {
+    BoundaryMap map(spec, skewed_nodes());
+    ADD_FAILURE() << "a solid cell at an inflow face was accepted";
+  } catch (const InputError& e) {
+    const std::string message = e.what();
+    EXPECT_EQ(message.rfind("bump.yaml:20: key 'solid_regions[0]': expected no solid cell at a face of an "
+                            "inflow segment, got cell (0, 0) at the face of boundaries[0] (line 10)",
+                            0),
+              0u)
+        << message;
+  }
 }

@@ -3,6 +3,7 @@
 #include <gtest/gtest.h>
 #include <unistd.h>
 
+#include <array>
 #include <filesystem>
 #include <fstream>
 #include <ostream>
@@ -99,6 +100,14 @@ void expect_same_case(const CaseSpec& a, const CaseSpec& b) {
     EXPECT_EQ(a.boundaries[s].to, b.boundaries[s].to);
     expect_same_vec(a.boundaries[s].velocity, b.boundaries[s].velocity);
     EXPECT_EQ(a.boundaries[s].pressure, b.boundaries[s].pressure);
+  }
+  ASSERT_EQ(a.solid_regions.size(), b.solid_regions.size());
+  for (size_t r = 0; r < a.solid_regions.size(); ++r) {
+    SCOPED_TRACE("solid region " + std::to_string(r));
+    EXPECT_EQ(a.solid_regions[r].i, b.solid_regions[r].i);
+    EXPECT_EQ(a.solid_regions[r].j, b.solid_regions[r].j);
+    EXPECT_EQ(a.solid_regions[r].x, b.solid_regions[r].x);
+    EXPECT_EQ(a.solid_regions[r].y, b.solid_regions[r].y);
   }
   EXPECT_EQ(a.periodic.axis, b.periodic.axis);
   EXPECT_EQ(a.periodic.mean_pressure_gradient, b.periodic.mean_pressure_gradient);
@@ -268,6 +277,29 @@ TEST(CaseLoader, ResolvedYamlKeepsAwkwardStringsAndNumbersExact) {
   const std::string resolved = resolved_case_yaml(spec);
   EXPECT_NE(resolved.find("# Resolved wallrans case"), std::string::npos);
   EXPECT_NE(resolved.find("wall_data: false"), std::string::npos);
+}
+
+TEST(CaseLoader, SolidRegionsKeepTheirRangesAndLinesAndReadBack) {
+  const std::string text = std::string(periodic_box_case) +
+                           "solid_regions:\n"
+                           "  - {j: [0, 1]}\n"
+                           "  - i: [2, 5]\n"
+                           "    y: [0.25, 0.5]\n"
+                           "  - {x: [-1.0e-3, 0.75], y: [0.0, 1.0]}\n";
+  const CaseSpec spec = parse_case_text(text, "solid.yaml");
+  ASSERT_EQ(spec.solid_regions.size(), 3u);
+  const SolidRegionSpec& rows = spec.solid_regions[0];
+  EXPECT_FALSE(rows.i);
+  EXPECT_EQ(rows.j, (std::array{0, 1}));
+  EXPECT_FALSE(rows.x || rows.y);
+  EXPECT_EQ(rows.line, 8);
+  EXPECT_EQ(spec.solid_regions[1].i, (std::array{2, 5}));
+  EXPECT_EQ(spec.solid_regions[1].y, (std::array{0.25, 0.5}));
+  EXPECT_EQ(spec.solid_regions[1].line, 9);
+  EXPECT_EQ(spec.solid_regions[2].x, (std::array{-1.0e-3, 0.75}));
+  EXPECT_EQ(spec.solid_regions[2].line, 11);
+  expect_round_trip(spec);
+  EXPECT_TRUE(parse_case_text(periodic_box_case, "box.yaml").solid_regions.empty());
 }
 
 TEST(CaseLoader, LoadsFileAndNamesItInMessages) {
@@ -471,5 +503,30 @@ INSTANTIATE_TEST_SUITE_P(
                 "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\n"
                 "boundaries: [{side: top, kind: wall}]\noutput: {wall_data: yes}\n",
                 4, "output.wall_data", "true or false, got yes"},
-        BadCase{"empty_title", "title: \"\"\n", 1, "title", "a non-empty string"}),
+        BadCase{"empty_title", "title: \"\"\n", 1, "title", "a non-empty string"},
+        BadCase{"solid_index_beyond_the_grid",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 6]}\n"
+                "boundaries: [{side: top, kind: wall}]\nsolid_regions:\n  - {i: [0, 1]}\n  - {i: [2, 3], j: "
+                "[4, 6]}\n",
+                6, "solid_regions[1].j", "0 <= first <= last < grid.cells_y = 6, got [4, 6]"},
+        BadCase{"solid_index_range_reversed",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 6]}\n"
+                "boundaries: [{side: top, kind: wall}]\nsolid_regions:\n  - i: [5, 2]\n",
+                5, "solid_regions[0].i", "got [5, 2]"},
+        BadCase{"solid_coordinate_range_empty",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 6]}\n"
+                "boundaries: [{side: top, kind: wall}]\nsolid_regions:\n  - {x: [0.5, 0.5]}\n",
+                5, "solid_regions[0].x", "2 numbers [min, max] with min < max, got [0.5, 0.5]"},
+        BadCase{"solid_region_without_range",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 6]}\n"
+                "boundaries: [{side: top, kind: wall}]\nsolid_regions:\n  - {}\n",
+                5, "solid_regions[0]", "at least one of i, j (index ranges) and x, y"},
+        BadCase{"solid_region_unknown_key",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 6]}\n"
+                "boundaries: [{side: top, kind: wall}]\nsolid_regions:\n  - {i: [0, 1], k: [0, 1]}\n",
+                5, "solid_regions[0].k", "(i, j, x, y)"},
+        BadCase{"solid_regions_empty_list",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 6]}\n"
+                "boundaries: [{side: top, kind: wall}]\nsolid_regions: []\n",
+                4, "solid_regions", "a non-empty list of solid regions, got []"}),
     [](const ::testing::TestParamInfo<BadCase>& info) { return std::string(info.param.name); });

@@ -2,6 +2,8 @@
 // chord sagitta) and the pruned search equal to an all-pairs minimum, bit for bit.
 #include <gtest/gtest.h>
 
+#include <algorithm>
+#include <array>
 #include <cmath>
 #include <limits>
 #include <numbers>
@@ -293,5 +295,50 @@ TEST(WallDistance, NoWallGivesInfinityAndNoId) {
       EXPECT_TRUE(std::isinf(result.distance(i, j)) && result.distance(i, j) > 0.0) << i << ", " << j;
       EXPECT_EQ(result.nearest[grid.local(i, j)], -1) << i << ", " << j;
     }
+  }
+}
+
+TEST(WallDistance, BlankedStepSeesTheStepFacesAndNotTheBuriedWalls) {
+  // A step of solid cells x < 1, y < 0.5 in a 3 x 1 box of 30 x 10 cells. The walls of the fluid
+  // are the top, the bottom beyond the step, and the step's top and downstream faces; the left
+  // and bottom walls under the step are buried in the solid.
+  Grid grid(MPI_COMM_WORLD, generate_nodes(box_spec(30, 10, 3.0, 1.0)), false);
+  auto inflow = segment(Side::left, BoundaryKind::inflow, 0.5);
+  inflow.velocity = {1.0, 0.0};
+  CaseSpec spec =
+      case_with({inflow, segment(Side::left, BoundaryKind::wall, std::nullopt, 0.5),
+                 segment(Side::right, BoundaryKind::outflow), segment(Side::bottom, BoundaryKind::wall),
+                 segment(Side::top, BoundaryKind::wall)});
+  SolidRegionSpec step;
+  step.x = std::array{-1.0, 1.0};
+  step.y = std::array{-1.0, 0.5};
+  spec.solid_regions = {step};
+  const BoundaryMap map(spec, grid.nodes());
+  const auto walls = collect_wall_faces(map);
+  ASSERT_EQ(walls.size(), 30u + 20u + 10u + 5u);  // top, bottom beyond the step, step top, step face
+  // The fluid's wall as three long segments (the step outline) and the top line, independent of
+  // the face list.
+  const Vec2 corner_top{0.0, 0.5}, corner{1.0, 0.5}, foot{1.0, 0.0}, end{3.0, 0.0};
+  for (const WallFace& w : walls) {
+    const Vec2 mid = 0.5 * (w.a + w.b);
+    const double off_outline =
+        std::min({point_segment_distance(mid, corner_top, corner), point_segment_distance(mid, corner, foot),
+                  point_segment_distance(mid, foot, end), std::abs(1.0 - mid.y)});
+    EXPECT_LT(off_outline, 1e-15) << "wall face off the fluid's walls at " << mid.x << ", " << mid.y;
+  }
+  const auto result = compute_wall_distance(grid, walls);
+  for (int j = grid.gy_begin(); j < grid.gy_end(); ++j) {
+    for (int i = grid.gx_begin(); i < grid.gx_end(); ++i) {
+      const Vec2 c = grid.centre(i, j);
+      if (c.x < 1.0 && c.y < 0.5) continue;  // solid
+      const double exact =
+          std::min({point_segment_distance(c, corner_top, corner), point_segment_distance(c, corner, foot),
+                    point_segment_distance(c, foot, end), 1.0 - c.y});
+      EXPECT_NEAR(result.distance(i, j), exact, 1e-14) << i << ", " << j;
+    }
+  }
+  // Cell (10, 5), centred at (1.05, 0.55), is nearest to the step corner (1, 0.5) itself.
+  if (10 >= grid.gx_begin() && 10 < grid.gx_end() && 5 >= grid.gy_begin() && 5 < grid.gy_end()) {
+    EXPECT_NEAR(result.distance(10, 5), 0.05 * std::sqrt(2.0), 1e-15);
   }
 }
