@@ -19,6 +19,8 @@ constexpr const char* usage =
     "  run CASE.yaml [--output-dir DIR] [--max-iterations N] [--quiet] [--restart FILE.h5] [--walltime S]\n"
     "                  solve the case; writes fields (VTK), residuals.csv, wall.csv, summary.json\n"
     "  check CASE.yaml validate the case and its grid without running; writes nothing\n"
+    "  write-grid CASE.yaml GRID.h5\n"
+    "                  write the case's grid with its boundary patches (docs/grid-file.md)\n"
     "  version         print the version\n"
     "PETSc options for the linear solvers go last, e.g. -pressure_ksp_rtol 1e-3\n"
     "(prefixes: -momentum_, -pressure_).\n"
@@ -29,6 +31,7 @@ constexpr const char* usage =
 struct Arguments {
   std::string command;
   wallrans::RunOptions run;
+  std::string grid_file;  ///< write-grid: the file to write
 };
 
 int parse_int(const std::string& flag, const char* text) {
@@ -83,12 +86,21 @@ Arguments parse(int argc, char** argv) {
     positional.push_back(arg);
   }
   if (positional.empty())
-    throw wallrans::InputError("command line: expected a command (run, check, version)");
+    throw wallrans::InputError("command line: expected a command (run, check, write-grid, version)");
   a.command = positional[0];
   if (a.command == "version") return a;
+  if (a.command == "write-grid") {
+    if (positional.size() != 3) {
+      throw wallrans::InputError("command line: write-grid: expected a case file and a grid file, got " +
+                                 std::to_string(positional.size() - 1) + " argument(s)");
+    }
+    a.run.case_file = positional[1];
+    a.grid_file = positional[2];
+    return a;
+  }
   if (a.command != "run" && a.command != "check") {
     throw wallrans::InputError("command line: unknown command '" + a.command +
-                               "'; expected run, check or version");
+                               "'; expected run, check, write-grid or version");
   }
   if (positional.size() != 2) {
     throw wallrans::InputError("command line: " + a.command + ": expected exactly one case file, got " +
@@ -113,6 +125,8 @@ int main(int argc, char** argv) {
       if (rank == 0) std::printf("wallrans %s\n", WALLRANS_VERSION);
     } else if (a.command == "check") {
       code = wallrans::check_case(MPI_COMM_WORLD, a.run.case_file);
+    } else if (a.command == "write-grid") {
+      code = wallrans::write_case_grid(MPI_COMM_WORLD, a.run.case_file, a.grid_file);
     } else {
       code = wallrans::run_case(MPI_COMM_WORLD, a.run);
     }

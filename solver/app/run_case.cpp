@@ -22,6 +22,8 @@
 #include "io/case_loader.hpp"
 #include "io/csv_writer.hpp"
 #include "io/gather.hpp"
+#include "io/grid_file.hpp"
+#include "io/grid_file_case.hpp"
 #include "io/vtk_writer.hpp"
 #include "models/model_factory.hpp"
 
@@ -53,6 +55,7 @@ struct Setup {
   CaseSpec spec;
   std::unique_ptr<Grid> grid;
   std::unique_ptr<BoundaryMap> boundaries;
+  std::string grid_note;  ///< what loading a grid file repaired ("" if nothing)
 };
 
 // Wraps messages from the grid generators and the boundary map with the case file name.
@@ -60,9 +63,19 @@ Setup build(MPI_Comm comm, const std::string& case_file) {
   Setup s;
   s.spec = load_case_file(case_file);
   try {
-    NodeCoordinates nodes = generate_nodes(s.spec.grid);
-    s.grid = std::make_unique<Grid>(comm, std::move(nodes), s.spec.periodic.axis == PeriodicAxis::x);
-    s.boundaries = std::make_unique<BoundaryMap>(s.spec, s.grid->nodes());
+    if (s.spec.grid.file.empty()) {
+      NodeCoordinates nodes = generate_nodes(s.spec.grid);
+      s.grid = std::make_unique<Grid>(comm, std::move(nodes), s.spec.periodic.axis == PeriodicAxis::x);
+      s.boundaries = std::make_unique<BoundaryMap>(s.spec, s.grid->nodes());
+    } else {
+      // Segments on a file grid are resolved against its patches (and its orientation).
+      CaseGrid loaded = load_case_grid(comm, s.spec);
+      s.grid_note = loaded.note;
+      s.grid = std::make_unique<Grid>(comm, std::move(loaded.nodes), s.spec.periodic.axis == PeriodicAxis::x);
+      CaseSpec resolved = s.spec;
+      resolved.boundaries = loaded.segments;
+      s.boundaries = std::make_unique<BoundaryMap>(resolved, s.grid->nodes());
+    }
   } catch (const InputError& e) {
     // Messages of the boundary map already name the file and segment line; the generators and
     // the grid metrics name the grid key, and get the grid section's line here.
@@ -71,6 +84,17 @@ Setup build(MPI_Comm comm, const std::string& case_file) {
     throw InputError(case_file + ":" + std::to_string(s.spec.grid.line) + ": " + text);
   }
   return s;
+}
+
+// Collective. What the run prints when its grid comes from a file: the file, any repair note and
+// the quality report ("" for a generated grid).
+std::string file_grid_report(const Setup& s) {
+  if (s.spec.grid.file.empty()) return "";
+  const GridQuality quality = measure_quality(*s.grid, *s.boundaries);
+  std::string text = "wallrans: grid " + s.spec.grid.file + ": " + std::to_string(s.grid->cells_x()) + " x " +
+                     std::to_string(s.grid->cells_y()) + " cells\n";
+  if (!s.grid_note.empty()) text += "wallrans: note: " + s.grid_note + "\n";
+  return text + quality_report(quality, *s.boundaries);
 }
 
 std::string json_number(double x) {
@@ -144,22 +168,34 @@ void write_profiles(const CaseSpec& spec, const FlowSolver& solver, const std::f
 int check_case(MPI_Comm comm, const std::string& case_file) {
   Setup s = build(comm, case_file);
   (void)make_turbulence_model(s.spec, *s.grid, *s.boundaries);
-  const GridQuality q = measure_quality(*s.grid);
+  const GridQuality q = measure_quality(*s.grid, *s.boundaries);
   int rank = 0, size = 1;
   MPI_Comm_rank(comm, &rank);
   MPI_Comm_size(comm, &size);
   if (rank == 0) {
     std::printf("%s: case '%s' is valid\n", case_file.c_str(), s.spec.title.c_str());
-    std::printf(
-        "  grid: %d x %d cells, %d rank(s); min cell area %.3e m^2, max aspect ratio %.1f, "
-        "max non-orthogonality %.1f deg\n",
-        s.grid->cells_x(), s.grid->cells_y(), size, q.min_volume, q.max_aspect_ratio,
-        q.max_non_orthogonality);
+    if (!s.grid_note.empty()) std::printf("  note: %s\n", s.grid_note.c_str());
+    std::printf("  grid: %d x %d cells%s%s, %d rank(s)\n%s", s.grid->cells_x(), s.grid->cells_y(),
+                s.spec.grid.file.empty() ? "" : " from ", s.spec.grid.file.c_str(), size,
+                quality_report(q, *s.boundaries).c_str());
     std::printf(
         "  flow: nu = %.4g m^2/s, Re = U_ref L_ref / nu = %.4g; model %s; %zu boundary segment(s)\n",
         s.spec.flow.kinematic_viscosity,
         s.spec.flow.reference_velocity * s.spec.flow.reference_length / s.spec.flow.kinematic_viscosity,
         s.spec.turbulence.model.c_str(), s.spec.boundaries.size());
+  }
+  return 0;
+}
+
+int write_case_grid(MPI_Comm comm, const std::string& case_file, const std::string& grid_file) {
+  const Setup s = build(comm, case_file);
+  const GridFileContent content{s.grid->nodes(), case_patches(*s.boundaries)};
+  write_grid_file(comm, grid_file, content);
+  int rank = 0;
+  MPI_Comm_rank(comm, &rank);
+  if (rank == 0) {
+    std::printf("wallrans: wrote the grid of '%s' (%d x %d cells, %zu patches) to %s\n", case_file.c_str(),
+                s.grid->cells_x(), s.grid->cells_y(), content.patches.size(), grid_file.c_str());
   }
   return 0;
 }
@@ -171,6 +207,7 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
   if (options.output_directory) spec.output.directory = *options.output_directory;
   if (options.max_iterations) spec.iterations.max = *options.max_iterations;
   const Grid& grid = *s.grid;
+  const std::string grid_report = file_grid_report(s);
   auto model = make_turbulence_model(spec, grid, *s.boundaries);
   FlowSolver solver(spec, grid, *s.boundaries, *model);
   const std::string case_text = resolved_case_yaml(spec);
@@ -228,6 +265,7 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
       if (row.size() == columns.size()) history->row(row);
     if (first_iteration > 0)
       std::printf("wallrans: restarted from %s at iteration %d\n", restart->c_str(), first_iteration);
+    std::fputs(grid_report.c_str(), stdout);
     std::printf("wallrans: case '%s', %d x %d cells on %d rank(s), model %s\n", spec.title.c_str(),
                 grid.cells_x(), grid.cells_y(), size, model->name().c_str());
     std::printf("%8s %12s %12s %12s", "iter", "res_u", "res_v", "res_mass");

@@ -33,6 +33,9 @@ struct FlowSpec {
 enum class GridGenerator { channel, cavity, plate, skewed_box };
 
 struct GridSpec {
+  /// Grid file in our HDF5 layout (docs/grid-file.md), an absolute path; "" = a generated grid.
+  /// With a file, the generator keys are unused and the cells come from the file.
+  std::string file;
   GridGenerator generator = GridGenerator::cavity;
   int cells_x = 0;  ///< required, >= 1 (periodic directions >= 2)
   int cells_y = 0;
@@ -56,6 +59,10 @@ struct BoundarySegmentSpec {
   Vec2 velocity{0.0, 0.0};         ///< wall velocity, inflow velocity or velocity entering an opening [m/s]
   std::optional<double> pressure;  ///< outflow/opening static pressure; default flow.reference_pressure
   int line = 0;                    ///< source line in the case file, for messages (0 = unknown)
+  /// First and last face along the side (0-based, inclusive; by increasing i on bottom/top, j on
+  /// left/right); absent = as from/to say.
+  std::optional<std::array<int, 2>> faces;
+  std::string patch;  ///< grid-file patch the segment covers instead of a side ("" = by side)
 };
 
 /// A block of cells taken out of the flow (blanked). A cell is in the region when its indices lie

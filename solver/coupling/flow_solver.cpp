@@ -194,15 +194,17 @@ void FlowSolver::initialised_from_fields() {
   grad_p_.exchange();
   // Face fluxes from the linearly interpolated velocity; the Rhie-Chow memory term starts at zero.
   std::fill(memory_.data().begin(), memory_.data().end(), 0.0);
+  for (size_t c = 0; c < vel_.x.data().size(); ++c)
+    if (is_solid(c)) vel_.x[c] = vel_.y[c] = p_[c] = 0.0;
   for_each_interior_face(
       grid_,
       [&](int i, int j) {
         const FaceGeometry& f = grid_.east_face(i, j);
-        flux_e_(i, j) = dot(f.wl * vel_(i, j) + (1.0 - f.wl) * vel_(i + 1, j), f.area);
+        flux_e_(i, j) = is_closed(grid_.local(i, j), grid_.local(i + 1, j)) ? 0.0 : dot(f.wl * vel_(i, j) + (1.0 - f.wl) * vel_(i + 1, j), f.area);
       },
       [&](int i, int j) {
         const FaceGeometry& f = grid_.north_face(i, j);
-        flux_n_(i, j) = dot(f.wl * vel_(i, j) + (1.0 - f.wl) * vel_(i, j + 1), f.area);
+        flux_n_(i, j) = is_closed(grid_.local(i, j), grid_.local(i, j + 1)) ? 0.0 : dot(f.wl * vel_(i, j) + (1.0 - f.wl) * vel_(i, j + 1), f.area);
       });
   flux_e_.exchange();
   flux_n_.exchange();

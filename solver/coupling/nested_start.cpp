@@ -172,6 +172,11 @@ std::vector<CoarseGridRun> start_from_coarser_grids(const CaseSpec& spec, const 
                                                     const std::function<void(const CoarseGridRun&)>& note) {
   // The hierarchy, finest first: halve a direction while its cell count is even and the halved
   // count keeps at least 8 cells (common practice for the coarsest grid of a sequence).
+  // Solid regions and boundary segments given by cell or face indices (grids from files) refer
+  // to the case's grid; such cases start on it.
+  bool by_index = !spec.grid.file.empty();
+  for (const SolidRegionSpec& region : spec.solid_regions) by_index = by_index || region.i || region.j;
+  if (by_index) return {};
   std::vector<NodeCoordinates> hierarchy;
   NodeCoordinates current = grid.nodes();
   for (int level = 0; level < spec.iterations.coarse_grids; ++level) {

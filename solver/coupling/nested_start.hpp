@@ -38,7 +38,8 @@ void interpolate_to_finer(const Grid& coarse, const Grid& fine, const Field& fro
 
 /// Collective. Solves the case on up to spec.iterations.coarse_grids coarser grids (fewer where
 /// a direction cannot be halved again: odd cell counts, or fewer than 8 cells left in both
-/// directions, or a boundary segment that no longer encloses a face), then writes the
+/// directions, or a boundary segment that no longer encloses a face; none on grids from files or
+/// with solid regions given by cell indices, which refer to the case's grid), then writes the
 /// interpolated solution, its residual references and the model state into `solver` and `model`,
 /// which must be fresh (iteration 0). `note` receives one line per coarse grid (rank 0 prints).
 /// Returns the coarse runs, coarsest first; empty if no coarser grid could be made.

@@ -1,4 +1,4 @@
-// Classifies boundary faces by the coordinate of their centre along the side.
+// Classifies boundary faces by the coordinate of their centre along the side, or by their index.
 #include "grid/boundary.hpp"
 
 #include "core/error.hpp"
@@ -74,10 +74,17 @@ BoundaryMap::BoundaryMap(const CaseSpec& spec, const NodeCoordinates& nodes)
                          to_string(side) + "' (periodic.axis: x makes it periodic), got kind '" +
                          to_string(seg.kind) + "'");
       }
+      if (seg.faces && (*seg.faces)[1] >= static_cast<int>(n)) {
+        throw InputError(case_location(spec, seg.line) + ": " + key(s) + "expected faces within [0, " +
+                         std::to_string(n - 1) + "] on side '" + to_string(side) + "', got [" +
+                         std::to_string((*seg.faces)[0]) + ", " + std::to_string((*seg.faces)[1]) + "]");
+      }
       int covered = 0;
       for (size_t k = 0; k < n; ++k) {
         if (seg.from && mid[k] < *seg.from) continue;
         if (seg.to && mid[k] > *seg.to) continue;
+        if (seg.faces && (on_side[k]->index < (*seg.faces)[0] || on_side[k]->index > (*seg.faces)[1]))
+          continue;
         const int taken = on_side[k]->segment;
         if (taken >= 0) {
           throw InputError(case_location(spec, seg.line) + ": " + key(s) +

@@ -46,6 +46,16 @@ SolidCells::SolidCells(const CaseSpec& spec, const NodeCoordinates& nodes)
   }
   for (size_t r = 0; r < spec.solid_regions.size(); ++r) {
     const SolidRegionSpec& solid = spec.solid_regions[r];
+    // Index ranges were checked against the case's cell counts, except on grids from files.
+    auto check_range = [&](const std::optional<std::array<int, 2>>& range, int cells, const char* key) {
+      if (range && (*range)[1] >= cells)
+        throw InputError(case_location(spec, solid.line) + ": key 'solid_regions[" + std::to_string(r) + "]." +
+                         key + "': expected 2 integers [first, last] with 0 <= first <= last < " +
+                         std::to_string(cells) + " (cells of the grid file), got [" + std::to_string((*range)[0]) +
+                         ", " + std::to_string((*range)[1]) + "]");
+    };
+    check_range(solid.i, nx, "i");
+    check_range(solid.j, ny, "j");
     int taken = 0;
     for (int j = 0; j < ny; ++j) {
       for (int i = 0; i < nx; ++i) {

@@ -8,6 +8,7 @@
 #include <filesystem>
 #include <fstream>
 #include <functional>
+#include <limits>
 #include <sstream>
 #include <string>
 #include <system_error>
@@ -172,12 +173,35 @@ void read_plate_keys(const Section& section, GridSpec& grid) {
   }
 }
 
+// A grid file named relative to the case file's folder, made absolute so the resolved case in a
+// run directory still finds it.
+std::string grid_file_path(const Value& file) {
+  const std::filesystem::path given = file.text("a non-empty path of a grid file");
+  if (given.empty()) file.fail("a non-empty path of a grid file");
+  if (given.is_absolute()) return given.lexically_normal().string();
+  std::error_code ignored;
+  const auto absolute =
+      std::filesystem::absolute(std::filesystem::path(file.source()).parent_path() / given, ignored);
+  return absolute.lexically_normal().string();
+}
+
 GridSpec read_grid(const Value& value) {
-  const Section section = value.section({"generator", "cells", "length", "height", "first_cell_height",
-                                         "run_up", "run_up_cells", "leading_edge_spacing", "skew_amplitude"});
+  const Section section =
+      value.section({"file", "generator", "cells", "length", "height", "first_cell_height", "run_up",
+                     "run_up_cells", "leading_edge_spacing", "skew_amplitude"});
   GridSpec grid;
   grid.line = value.line();
-  grid.generator = read_enum(section.require("generator", one_of(all_generators)), all_generators);
+  if (const auto file = section.find("file")) {
+    // The file gives the nodes; a generator key next to it would be silently ignored.
+    for (const char* key : {"generator", "cells", "length", "height", "first_cell_height", "run_up",
+                            "run_up_cells", "leading_edge_spacing", "skew_amplitude"}) {
+      if (const auto other = section.find(key)) other->fail("no generator key next to grid.file", "a value");
+    }
+    grid.file = grid_file_path(*file);
+    return grid;
+  }
+  grid.generator =
+      read_enum(section.require("generator", one_of(all_generators) + " (or grid.file)"), all_generators);
   const std::string cells_expected = "2 positive integers [cells_x, cells_y]";
   const auto cells = section.require("cells", cells_expected).integers(2, cells_expected, [](int cells) {
     return cells >= 1;
@@ -203,7 +227,8 @@ PeriodicSpec read_periodic(const Value& value, const GridSpec& grid) {
   PeriodicSpec periodic;
   const Value axis = section.require("axis", one_of(periodic_axes));
   periodic.axis = read_enum(axis, periodic_axes);
-  if (grid.cells_x < 2) {
+  // A grid file's cell count is checked when the file is read.
+  if (grid.file.empty() && grid.cells_x < 2) {
     axis.fail("grid.cells_x >= 2 for a periodic x axis", "cells_x = " + std::to_string(grid.cells_x));
   }
   periodic.mean_pressure_gradient = number_or(section, "mean_pressure_gradient", 0.0, any_number);
@@ -229,15 +254,37 @@ BoundaryKind read_kind(const Value& value) {
   return read_enum(value, all_kinds);
 }
 
-BoundarySegmentSpec read_segment(const Value& entry, const FlowSpec& flow, const PeriodicSpec& periodic,
-                                 int periodic_line) {
-  const Section section = entry.section({"side", "kind", "from", "to", "velocity", "pressure"});
-  BoundarySegmentSpec segment;
-  segment.line = entry.line();
-  const Value side = section.require("side", one_of(all_sides));
-  segment.side = read_enum(side, all_sides);
-  segment.kind = read_kind(section.require("kind", one_of(all_kinds)));
-  const std::string kind = name_of(segment.kind);
+// Where a segment lies: a patch of the grid file, or a side with an optional coordinate or face
+// range. Coordinates need not be monotone along a curved side, so file grids take faces or patches.
+void read_segment_place(const Section& section, const GridSpec& grid, BoundarySegmentSpec& segment) {
+  if (const auto patch = section.find("patch")) {
+    if (grid.file.empty()) patch->fail("no patch without grid.file (only grid files have patches)");
+    for (const char* key : {"side", "from", "to", "faces"}) {
+      if (const auto other = section.find(key))
+        other->fail("no " + std::string(key) + " next to patch (the patch gives the faces)", "a value");
+    }
+    segment.patch = patch->text("a patch name of the grid file");
+    if (segment.patch.empty()) patch->fail("a patch name of the grid file");
+    return;
+  }
+  segment.side = read_enum(section.require("side", one_of(all_sides) + " (or patch)"), all_sides);
+  if (const auto faces = section.find("faces")) {
+    const std::string expected = "2 integers [first, last] with 0 <= first <= last";
+    const auto range = faces->integers(2, expected, [](int n) { return n >= 0; });
+    if (range[0] > range[1]) faces->fail(expected);
+    for (const char* key : {"from", "to"}) {
+      if (const auto other = section.find(key))
+        other->fail("no " + std::string(key) + " next to faces", "a value");
+    }
+    segment.faces = std::array<int, 2>{range[0], range[1]};
+  }
+  for (const char* key : {"from", "to"}) {
+    const auto value = section.find(key);
+    if (value && !grid.file.empty()) {
+      value->fail("'faces' or 'patch' on a grid from a file (coordinates need not be monotone along a side)",
+                  "'" + std::string(key) + "'");
+    }
+  }
   if (const auto from = section.find("from")) segment.from = from->number(any_number);
   if (const auto to = section.find("to")) {
     segment.to = to->number(any_number);
@@ -245,6 +292,17 @@ BoundarySegmentSpec read_segment(const Value& entry, const FlowSpec& flow, const
       to->fail("a number greater than from = " + number_text(*segment.from));
     }
   }
+}
+
+BoundarySegmentSpec read_segment(const Value& entry, const FlowSpec& flow, const GridSpec& grid,
+                                 const PeriodicSpec& periodic, int periodic_line) {
+  const Section section =
+      entry.section({"side", "patch", "kind", "from", "to", "faces", "velocity", "pressure"});
+  BoundarySegmentSpec segment;
+  segment.line = entry.line();
+  read_segment_place(section, grid, segment);
+  segment.kind = read_kind(section.require("kind", one_of(all_kinds)));
+  const std::string kind = name_of(segment.kind);
   if (const auto velocity = section.find("velocity")) {
     if (!takes_velocity(segment.kind)) {
       velocity->fail("no velocity for kind '" + kind + "' (only wall, inflow and opening take one)");
@@ -261,9 +319,10 @@ BoundarySegmentSpec read_segment(const Value& entry, const FlowSpec& flow, const
   } else if (takes_pressure(segment.kind)) {
     segment.pressure = flow.reference_pressure;
   }
-  const bool on_x_end = segment.side == Side::left || segment.side == Side::right;
+  const bool on_x_end = segment.patch.empty() && (segment.side == Side::left || segment.side == Side::right);
   if (periodic.axis == PeriodicAxis::x && on_x_end) {
     // Reported at the segment's own line, which is where the user has to act.
+    const Value side = section.require("side", one_of(all_sides));
     Value(side.source(), side.node(), side.key(), segment.line)
         .fail("no segment on side '" + std::string(name_of(segment.side)) +
                   "' because periodic.axis is x (line " + std::to_string(periodic_line) + ")",
@@ -273,12 +332,14 @@ BoundarySegmentSpec read_segment(const Value& entry, const FlowSpec& flow, const
 }
 
 std::vector<BoundarySegmentSpec> read_boundaries(const Value& value, const FlowSpec& flow,
-                                                 const PeriodicSpec& periodic, int periodic_line) {
+                                                 const GridSpec& grid, const PeriodicSpec& periodic,
+                                                 int periodic_line) {
   const std::string expected = "a non-empty list of boundary segments";
   const auto entries = value.items(expected);
   if (entries.empty()) value.fail(expected);
   std::vector<BoundarySegmentSpec> segments;
-  for (const Value& entry : entries) segments.push_back(read_segment(entry, flow, periodic, periodic_line));
+  for (const Value& entry : entries)
+    segments.push_back(read_segment(entry, flow, grid, periodic, periodic_line));
   return segments;
 }
 
@@ -308,8 +369,10 @@ SolidRegionSpec read_solid_region(const Value& entry, const GridSpec& grid) {
     if (!(range[0] < range[1])) value->fail(expected);
     return std::array<double, 2>{range[0], range[1]};
   };
-  region.i = index_range("i", grid.cells_x, "cells_x");
-  region.j = index_range("j", grid.cells_y, "cells_y");
+  // On a grid from a file the cell counts are known only once it is read (SolidCells checks there).
+  const int unknown = std::numeric_limits<int>::max();
+  region.i = index_range("i", grid.file.empty() ? grid.cells_x : unknown, "cells_x");
+  region.j = index_range("j", grid.file.empty() ? grid.cells_y : unknown, "cells_y");
   region.x = coordinate_range("x");
   region.y = coordinate_range("y");
   return region;
@@ -461,6 +524,11 @@ void put(YAML::Emitter& out, const char* key, Vec2 v) {
 
 void put_grid(YAML::Emitter& out, const GridSpec& grid) {
   out << YAML::Key << "grid" << YAML::Value << YAML::BeginMap;
+  if (!grid.file.empty()) {
+    put_text(out, "file", grid.file);
+    out << YAML::EndMap;
+    return;
+  }
   put(out, "generator", name_of(grid.generator));
   out << YAML::Key << "cells" << YAML::Value << YAML::Flow << YAML::BeginSeq << grid.cells_x << grid.cells_y
       << YAML::EndSeq;
@@ -498,10 +566,18 @@ void put_boundaries(YAML::Emitter& out, const std::vector<BoundarySegmentSpec>& 
   out << YAML::Key << "boundaries" << YAML::Value << YAML::BeginSeq;
   for (const auto& segment : segments) {
     out << YAML::Flow << YAML::BeginMap;
-    put(out, "side", name_of(segment.side));
+    if (segment.patch.empty()) {
+      put(out, "side", name_of(segment.side));
+    } else {
+      put_text(out, "patch", segment.patch);
+    }
     put(out, "kind", name_of(segment.kind));
     if (segment.from) put(out, "from", *segment.from);
     if (segment.to) put(out, "to", *segment.to);
+    if (segment.faces) {
+      out << YAML::Key << "faces" << YAML::Value << YAML::Flow << YAML::BeginSeq << (*segment.faces)[0]
+          << (*segment.faces)[1] << YAML::EndSeq;
+    }
     if (takes_velocity(segment.kind)) put(out, "velocity", segment.velocity);
     if (segment.pressure) put(out, "pressure", *segment.pressure);
     out << YAML::EndMap;
@@ -524,7 +600,7 @@ CaseSpec parse_case_text(const std::string& text, const std::string& source_name
   const auto periodic = top.find("periodic");
   if (periodic) spec.periodic = read_periodic(*periodic, spec.grid);
   spec.boundaries = read_boundaries(top.require("boundaries", "a non-empty list of boundary segments"),
-                                    spec.flow, spec.periodic, periodic ? periodic->line() : 0);
+                                    spec.flow, spec.grid, spec.periodic, periodic ? periodic->line() : 0);
   if (const auto solid = top.find("solid_regions"))
     spec.solid_regions = read_solid_regions(*solid, spec.grid);
   if (const auto turbulence = top.find("turbulence")) spec.turbulence = read_turbulence(*turbulence);

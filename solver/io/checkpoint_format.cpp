@@ -4,7 +4,6 @@
 
 #include <cstdint>
 #include <cstring>
-#include <filesystem>
 #include <type_traits>
 
 #include "core/error.hpp"
@@ -13,8 +12,6 @@
 namespace wallrans::checkpoint_format {
 
 namespace {
-
-namespace fs = std::filesystem;
 
 constexpr const char* format_attribute = "format";
 constexpr const char* version_attribute = "format_version";
@@ -31,16 +28,6 @@ std::string dims_text(const std::vector<unsigned long long>& dims) {
   std::string text;
   for (size_t k = 0; k < dims.size(); ++k) text += (k ? " x " : "") + std::to_string(dims[k]);
   return text;
-}
-
-// Local. True if every group on the way to `object_path` ("/fields/u") and the object exist.
-bool has_object(hid_t file, const std::string& object_path) {
-  size_t next = 0;
-  do {
-    next = object_path.find('/', next + 1);
-    if (H5Lexists(file, object_path.substr(0, next).c_str(), H5P_DEFAULT) <= 0) return false;
-  } while (next != std::string::npos);
-  return true;
 }
 
 class Packer {
@@ -121,23 +108,7 @@ void write_metadata(hid_t file, const CheckpointMetadata& metadata) {
 
 Hdf5File open_for_validation(const std::string& path) {
   const std::string expected = path + ": expected a wallrans checkpoint (HDF5 with attribute 'format'), got ";
-  std::error_code error;
-  const fs::file_status status = fs::status(path, error);
-  if (status.type() == fs::file_type::not_found) throw InputError(expected + "no such file");
-  if (error) throw InputError(expected + "an inaccessible path (" + error.message() + ")");
-  if (fs::is_directory(status)) throw InputError(expected + "a directory");
-  if (!fs::is_regular_file(status)) throw InputError(expected + "something that is not a regular file");
-  const htri_t is_hdf5 = H5Fis_hdf5(path.c_str());
-  if (is_hdf5 < 0) throw InputError(expected + "an unreadable file (" + hdf5_error_text() + ")");
-  if (is_hdf5 == 0) {
-    const auto size = fs::file_size(path, error);
-    throw InputError(expected + "a file that is not HDF5 (no HDF5 signature in its " +
-                     (error ? std::string("?") : std::to_string(size)) + " bytes)");
-  }
-  const Hdf5PropertyList access(check_hdf5(H5Pcreate(H5P_FILE_ACCESS), "H5Pcreate"));
-  check_hdf5(H5Pset_fapl_sec2(access.get()), "H5Pset_fapl_sec2");
-  Hdf5File file(H5Fopen(path.c_str(), H5F_ACC_RDONLY, access.get()));
-  if (!file) throw InputError(expected + "an unreadable or truncated HDF5 file (" + hdf5_error_text() + ")");
+  Hdf5File file = open_hdf5_read_only(path, expected);
   if (!has_attribute(file.get(), format_attribute)) {
     throw InputError(expected + "an HDF5 file without attribute 'format'");
   }

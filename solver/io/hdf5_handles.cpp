@@ -1,6 +1,8 @@
 // The HDF5 return-code check, the one-line error-stack text and the quiet-errors guard.
 #include "io/hdf5_handles.hpp"
 
+#include <filesystem>
+#include <system_error>
 #include <vector>
 
 #include "core/error.hpp"
@@ -46,6 +48,37 @@ int64_t check_hdf5(int64_t code, const char* call, const std::source_location& w
   if (code >= 0) return code;
   throw Error("HDF5 error in " + std::string(call) + " (" + hdf5_error_text() + ") at " + where.file_name() +
               ":" + std::to_string(where.line()));
+}
+
+Hdf5File open_hdf5_read_only(const std::string& path, const std::string& expected) {
+  namespace fs = std::filesystem;
+  std::error_code error;
+  const fs::file_status status = fs::status(path, error);
+  if (status.type() == fs::file_type::not_found) throw InputError(expected + "no such file");
+  if (error) throw InputError(expected + "an inaccessible path (" + error.message() + ")");
+  if (fs::is_directory(status)) throw InputError(expected + "a directory");
+  if (!fs::is_regular_file(status)) throw InputError(expected + "something that is not a regular file");
+  const htri_t is_hdf5 = H5Fis_hdf5(path.c_str());
+  if (is_hdf5 < 0) throw InputError(expected + "an unreadable file (" + hdf5_error_text() + ")");
+  if (is_hdf5 == 0) {
+    const auto size = fs::file_size(path, error);
+    throw InputError(expected + "a file that is not HDF5 (no HDF5 signature in its " +
+                     (error ? std::string("?") : std::to_string(size)) + " bytes)");
+  }
+  const Hdf5PropertyList access(check_hdf5(H5Pcreate(H5P_FILE_ACCESS), "H5Pcreate"));
+  check_hdf5(H5Pset_fapl_sec2(access.get()), "H5Pset_fapl_sec2");
+  Hdf5File file(H5Fopen(path.c_str(), H5F_ACC_RDONLY, access.get()));
+  if (!file) throw InputError(expected + "an unreadable or truncated HDF5 file (" + hdf5_error_text() + ")");
+  return file;
+}
+
+bool has_object(hid_t file, const std::string& object_path) {
+  size_t next = 0;
+  do {
+    next = object_path.find('/', next + 1);
+    if (H5Lexists(file, object_path.substr(0, next).c_str(), H5P_DEFAULT) <= 0) return false;
+  } while (next != std::string::npos);
+  return true;
 }
 
 QuietHdf5Errors::QuietHdf5Errors() {

@@ -81,4 +81,13 @@ using Hdf5Space = Hdf5Owner<H5Sclose>;
 using Hdf5Type = Hdf5Owner<H5Tclose>;
 using Hdf5PropertyList = Hdf5Owner<H5Pclose>;
 
+/// Local. Opens the HDF5 file <path> read-only with the serial (sec2) driver. A missing path, a
+/// directory or other non-regular file, a file without the HDF5 signature and an unreadable or
+/// truncated file throw InputError "<expected><what was found>", where `expected` starts the
+/// message (e.g. "run/c_5.h5: expected a wallrans checkpoint (HDF5 with attribute 'format'), got ").
+Hdf5File open_hdf5_read_only(const std::string& path, const std::string& expected);
+
+/// Local. True if every group on the way to `object_path` ("/fields/u") and the object exist.
+bool has_object(hid_t file, const std::string& object_path);
+
 }  // namespace wallrans

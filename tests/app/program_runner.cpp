@@ -22,7 +22,7 @@ std::string quoted(const std::string& text) {
   return out + "'";
 }
 
-ProgramResult run_command(const std::string& launcher, const fs::path& directory,
+ProgramResult run_command(const std::string& launcher, const std::string& program, const fs::path& directory,
                           const std::vector<std::string>& arguments, const fs::path& capture_directory,
                           const std::string& label) {
   fs::create_directories(capture_directory);
@@ -30,7 +30,7 @@ ProgramResult run_command(const std::string& launcher, const fs::path& directory
   const fs::path err = capture_directory / (label + ".stderr");
   // Built by appending pieces (GCC 12 warns falsely about `"literal" + std::string&&`).
   std::string command = "cd ";
-  command.append(quoted(directory.string())).append(" && ").append(launcher).append(quoted(WALLRANS_PROGRAM));
+  command.append(quoted(directory.string())).append(" && ").append(launcher).append(quoted(program));
   for (const auto& argument : arguments) command.append(" ").append(quoted(argument));
   command.append(" >").append(quoted(out.string())).append(" 2>").append(quoted(err.string()));
   command.append(" </dev/null");
@@ -64,7 +64,13 @@ ScratchDirectory::~ScratchDirectory() {
 
 ProgramResult run_program(const fs::path& directory, const std::vector<std::string>& arguments,
                           const fs::path& capture_directory, const std::string& label) {
-  return run_command("", directory, arguments, capture_directory, label);
+  return run_command("", WALLRANS_PROGRAM, directory, arguments, capture_directory, label);
+}
+
+ProgramResult run_executable(const std::string& program, const fs::path& directory,
+                             const std::vector<std::string>& arguments, const fs::path& capture_directory,
+                             const std::string& label) {
+  return run_command("", program, directory, arguments, capture_directory, label);
 }
 
 ProgramResult run_program_mpi(int ranks, const fs::path& directory, const std::vector<std::string>& arguments,
@@ -74,7 +80,7 @@ ProgramResult run_program_mpi(int ranks, const fs::path& directory, const std::v
   const std::string launcher = (environment.empty() ? std::string() : "env " + environment + " ") +
                                quoted(WALLRANS_MPIEXEC) + " " + WALLRANS_MPIEXEC_NUMPROC_FLAG + " " +
                                std::to_string(ranks) + " ";
-  return run_command(launcher, directory, arguments, capture_directory, label);
+  return run_command(launcher, WALLRANS_PROGRAM, directory, arguments, capture_directory, label);
 }
 
 std::string read_text(const fs::path& path) {

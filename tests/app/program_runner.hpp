@@ -34,6 +34,11 @@ struct ProgramResult {
 ProgramResult run_program(const std::filesystem::path& directory, const std::vector<std::string>& arguments,
                           const std::filesystem::path& capture_directory, const std::string& label);
 
+/// As run_program, for another program: `program` is its path (e.g. the CGNS converter).
+ProgramResult run_executable(const std::string& program, const std::filesystem::path& directory,
+                             const std::vector<std::string>& arguments,
+                             const std::filesystem::path& capture_directory, const std::string& label);
+
 /// As run_program, but under `mpiexec -n ranks` (the MPI launcher found by CMake).
 ProgramResult run_program_mpi(int ranks, const std::filesystem::path& directory,
                               const std::vector<std::string>& arguments,

@@ -10,9 +10,11 @@
 #include <string>
 
 #include "core/error.hpp"
+#include "input_error_of.hpp"
 #include "io/case_loader.hpp"
 
 using namespace wallrans;
+using test_support::input_error_of;
 
 namespace {
 
@@ -81,6 +83,7 @@ void expect_same_case(const CaseSpec& a, const CaseSpec& b) {
   EXPECT_EQ(a.flow.reference_pressure, b.flow.reference_pressure);
   expect_same_vec(a.flow.body_force, b.flow.body_force);
   expect_same_vec(a.flow.initial_velocity, b.flow.initial_velocity);
+  EXPECT_EQ(a.grid.file, b.grid.file);
   EXPECT_EQ(a.grid.generator, b.grid.generator);
   EXPECT_EQ(a.grid.cells_x, b.grid.cells_x);
   EXPECT_EQ(a.grid.cells_y, b.grid.cells_y);
@@ -98,6 +101,8 @@ void expect_same_case(const CaseSpec& a, const CaseSpec& b) {
     EXPECT_EQ(a.boundaries[s].kind, b.boundaries[s].kind);
     EXPECT_EQ(a.boundaries[s].from, b.boundaries[s].from);
     EXPECT_EQ(a.boundaries[s].to, b.boundaries[s].to);
+    EXPECT_EQ(a.boundaries[s].faces, b.boundaries[s].faces);
+    EXPECT_EQ(a.boundaries[s].patch, b.boundaries[s].patch);
     expect_same_vec(a.boundaries[s].velocity, b.boundaries[s].velocity);
     EXPECT_EQ(a.boundaries[s].pressure, b.boundaries[s].pressure);
   }
@@ -134,18 +139,6 @@ void expect_round_trip(const CaseSpec& spec) {
   const std::string body = resolved.substr(resolved.find('\n'));
   const std::string resolved_again = resolved_case_yaml(again);
   EXPECT_EQ(resolved_again.substr(resolved_again.find('\n')), body);
-}
-
-// The message of the InputError that `run` throws ("" and a failure if it throws none).
-template <class Run>
-std::string input_error_of(Run run) {
-  try {
-    run();
-  } catch (const InputError& error) {
-    return error.what();
-  }
-  ADD_FAILURE() << "expected an InputError";
-  return "";
 }
 
 }  // namespace
@@ -320,6 +313,30 @@ TEST(CaseLoader, LoadsFileAndNamesItInMessages) {
   std::filesystem::remove(path);
 }
 
+TEST(CaseLoader, GridFileIsFoundBesideTheCaseFileAndSegmentsTakePatchesOrFaces) {
+  const std::string text =
+      "flow: {kinematic_viscosity: 0.01}\n"
+      "grid: {file: grids/hill.h5}\n"
+      "boundaries:\n"
+      "  - {patch: lower wall, kind: wall}\n"
+      "  - {side: top, faces: [0, 5], kind: slip}\n"
+      "  - {side: top, faces: [6, 9], kind: opening}\n";
+  const CaseSpec spec = parse_case_text(text, "/cases/hill/case.yaml");
+  EXPECT_EQ(spec.grid.file, "/cases/hill/grids/hill.h5");
+  ASSERT_EQ(spec.boundaries.size(), 3u);
+  EXPECT_EQ(spec.boundaries[0].patch, "lower wall");
+  EXPECT_FALSE(spec.boundaries[0].faces.has_value());
+  EXPECT_EQ(spec.boundaries[1].side, Side::top);
+  EXPECT_EQ(spec.boundaries[1].faces, (std::array<int, 2>{0, 5}));
+  EXPECT_EQ(spec.boundaries[2].faces, (std::array<int, 2>{6, 9}));
+  expect_round_trip(spec);
+  // An absolute path is kept as it is.
+  const CaseSpec absolute = parse_case_text(
+      "flow: {kinematic_viscosity: 0.01}\ngrid: {file: /data/g.h5}\nboundaries: [{side: top, kind: wall}]\n",
+      "/cases/c.yaml");
+  EXPECT_EQ(absolute.grid.file, "/data/g.h5");
+}
+
 TEST(CaseLoader, TheOldKindNameFreeIsAnErrorThatNamesOpening) {
   const std::string text =
       "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\nboundaries:\n"
@@ -392,7 +409,7 @@ INSTANTIATE_TEST_SUITE_P(
                 "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\nboundaries:\n"
                 "  - side: top\n    kind: wall\n    speed: [1, 0]\n",
                 6, "boundaries[0].speed",
-                "a key of 'boundaries[0]' (side, kind, from, to, velocity, pressure)"},
+                "a key of 'boundaries[0]' (side, patch, kind, from, to, faces, velocity, pressure)"},
         BadCase{"repeated_key", "flow:\n  kinematic_viscosity: 0.01\n  kinematic_viscosity: 0.02\n", 3,
                 "flow.kinematic_viscosity", "first at line 2"},
         BadCase{"string_viscosity", "flow: {kinematic_viscosity: small}\n", 1, "flow.kinematic_viscosity",
@@ -528,5 +545,28 @@ INSTANTIATE_TEST_SUITE_P(
         BadCase{"solid_regions_empty_list",
                 "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 6]}\n"
                 "boundaries: [{side: top, kind: wall}]\nsolid_regions: []\n",
-                4, "solid_regions", "a non-empty list of solid regions, got []"}),
+                4, "solid_regions", "a non-empty list of solid regions, got []"},
+        BadCase{"generator_key_next_to_file",
+                "flow: {kinematic_viscosity: 0.01}\ngrid:\n  file: hill.h5\n  cells: [8, 8]\n", 4,
+                "grid.cells", "no generator key next to grid.file"},
+        BadCase{"patch_without_grid_file",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\nboundaries:\n"
+                "  - {patch: lid, kind: wall}\n",
+                4, "boundaries[0].patch", "no patch without grid.file"},
+        BadCase{"side_next_to_patch",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {file: hill.h5}\nboundaries:\n"
+                "  - {patch: lid, side: top, kind: wall}\n",
+                4, "boundaries[0].side", "no side next to patch"},
+        BadCase{"coordinates_on_a_file_grid",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {file: hill.h5}\nboundaries:\n"
+                "  - {side: bottom, from: 0.5, kind: wall}\n",
+                4, "boundaries[0].from", "'faces' or 'patch' on a grid from a file"},
+        BadCase{"faces_reversed",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {file: hill.h5}\nboundaries:\n"
+                "  - {side: bottom, faces: [5, 2], kind: wall}\n",
+                4, "boundaries[0].faces", "0 <= first <= last, got [5, 2]"},
+        BadCase{"faces_next_to_from",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\nboundaries:\n"
+                "  - {side: bottom, faces: [0, 3], to: 0.5, kind: wall}\n",
+                4, "boundaries[0].to", "no to next to faces"}),
     [](const ::testing::TestParamInfo<BadCase>& info) { return std::string(info.param.name); });
