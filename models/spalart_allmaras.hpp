@@ -1,5 +1,6 @@
 // Spalart-Allmaras one-equation model (Spalart & Allmaras 1994) with the variants standard,
-// noft2 and negative (Allmaras, Johnson & Spalart 2012); equations in models/README.md, sec. 1.
+// noft2 and negative (Allmaras, Johnson & Spalart 2012, on the noft2 base); equations in
+// models/README.md, sec. 1.
 #pragma once
 
 #include <functional>
@@ -9,8 +10,11 @@
 
 namespace wallrans {
 
-/// Model constants (Spalart & Allmaras 1994; S-tilde limiter and negative branch: Allmaras,
-/// Johnson & Spalart 2012).
+/// Model constants. c_b1, c_b2, sigma, kappa, c_w2, c_w3, c_v1 and c_w1 = c_b1/kappa^2 + (1 + c_b2)/sigma:
+/// Spalart & Allmaras (1994). c_t3 = 1.2, c_t4 = 0.5: the values listed by Allmaras, Johnson &
+/// Spalart (2012) and the NASA Langley Turbulence Modeling Resource (the original papers printed
+/// c_t3 = 1.1, c_t4 = 2; from memory). c_v2, c_v3 (S-tilde limiter) and c_n1 (negative branch):
+/// Allmaras, Johnson & Spalart (2012).
 struct SaConstants {
   static constexpr double cb1 = 0.1355, cb2 = 0.622, sigma = 2.0 / 3.0, kappa = 0.41;
   static constexpr double cw2 = 0.3, cw3 = 2.0, cv1 = 7.1, ct3 = 1.2, ct4 = 0.5;

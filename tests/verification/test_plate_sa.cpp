@@ -1,12 +1,14 @@
 // Turbulent flat plate at zero pressure gradient (configs/plate_sa.yaml, Spalart-Allmaras,
-// Re_L = 1e7) against the skin-friction relation of Coles-Fernholz with the constants of Nagib,
-// Chauhan & Monkewitz (2007), the log law, and, for information, Karman-Schoenherr (TMR form,
-// tests/data/flat-plate-correlations-tmr) and the DNS of Schlatter & Orlu (2010, J. Fluid Mech.
-// 659:116, profile at Re_theta = 4061 in tests/data/zpg-tbl-schlatter-orlu2010).
+// Re_L = 1e7): skin friction within the band of published values (Coles-Fernholz with the
+// constants of Nagib, Chauhan & Monkewitz 2007; Karman-Schoenherr in the TMR form,
+// tests/data/flat-plate-correlations-tmr; the DNS of Schlatter & Orlu 2010, J. Fluid Mech.
+// 659:116, Re_theta = 4061 in tests/data/zpg-tbl-schlatter-orlu2010), the log-law band, and the
+// DNS profile for information.
 // Profiles are taken along grid columns from the solver fields; the logic is rank-safe.
 #include <gtest/gtest.h>
 #include <mpi.h>
 
+#include <algorithm>
 #include <cmath>
 #include <cstdio>
 #include <fstream>
@@ -16,6 +18,7 @@
 
 #include "case_runner.hpp"
 #include "io/case_loader.hpp"
+#include "log_law_band.hpp"
 #include "plate_boundary_layer.hpp"
 
 using namespace wallrans;
@@ -51,14 +54,30 @@ test_support::CaseRun* PlateSa::run_ = nullptr;
 // and within the 20000 the correlation table covers.
 constexpr double re_theta_min = 3000.0, re_theta_max = 20000.0;
 
+// The DNS station of Schlatter & Orlu (2010), from the header of the data file.
+constexpr double dns_re_theta = 4061.378, dns_cf = 0.002970989, dns_h12 = 1.387046;
+
+// Band of published skin-friction values at Re_theta: from below, Coles-Fernholz (Nagib, Chauhan &
+// Monkewitz 2007) lowered by the amount the DNS of Schlatter & Orlu (2010) lies below it at its
+// station (1.4 %); from above, Karman-Schoenherr (about 4 % above Coles-Fernholz). The spread of
+// these published values is the tolerance; the numerical uncertainty of the shipped grid (GCI21
+// <= 0.10 % at x = 0.5 and 0.9 m, docs/validation-plate.md) is small against it and not added.
+struct CfBand {
+  double low, high;
+};
+CfBand published_cf_band(double re_theta) {
+  const double dns_ratio = dns_cf / test_support::coles_fernholz_cf(dns_re_theta);
+  return {test_support::coles_fernholz_cf(re_theta) * std::min(1.0, dns_ratio),
+          test_support::karman_schoenherr_cf(re_theta)};
+}
+
 }  // namespace
 
-TEST(PlateCorrelations, MatchPublishedValues) {
-  // Coles-Fernholz (NCM 2007 constants) at the values quoted in the project's verification notes.
-  EXPECT_NEAR(test_support::coles_fernholz_cf(1000.0), 4.089e-3, 0.0005e-3);
-  EXPECT_NEAR(test_support::coles_fernholz_cf(4000.0), 3.022e-3, 0.0005e-3);
-  EXPECT_NEAR(test_support::coles_fernholz_cf(10000.0), 2.531e-3, 0.0005e-3);
-  // Karman-Schoenherr against the table of tests/data/flat-plate-correlations-tmr (6 digits).
+TEST(PlateCorrelations, KarmanSchoenherrMatchesTmrTable) {
+  // Our transcription of the Karman-Schoenherr relation against the table the NASA Turbulence
+  // Modeling Resource evaluated from it (tests/data/flat-plate-correlations-tmr): values printed to
+  // 8 decimals, so they are rounded by at most 5e-9; allow twice that. (Coles-Fernholz has no
+  // independent table here: it is evaluated from its formula directly.)
   std::ifstream in(std::string(WALLRANS_TEST_DATA) + "/flat-plate-correlations-tmr/cf_karman_schoenherr.dat");
   ASSERT_TRUE(in.good());
   std::string line;
@@ -107,11 +126,11 @@ TEST_F(PlateSa, FirstCellBelowUnitYPlus) {
                 worst_x_all);
 }
 
-TEST_F(PlateSa, SkinFrictionAgainstColesFernholz) {
+TEST_F(PlateSa, SkinFrictionWithinPublishedBand) {
   ASSERT_TRUE(run_->converged);
   const Grid& g = *run_->grid;
   // Every plate column with Re_theta in the window, and a printed table every 0.05 m.
-  double worst = 0.0, worst_x = 0.0, worst_re = 0.0;
+  double worst = 0.0, worst_x = 0.0, worst_re = 0.0, margin = 1.0;
   int n_checked = 0;
   for (int i = 0; i < g.cells_x(); ++i) {
     if (test_support::bottom_face_x(g, i) <= 0.0) continue;
@@ -123,8 +142,11 @@ TEST_F(PlateSa, SkinFrictionAgainstColesFernholz) {
       worst_x = bl.x;
       worst_re = bl.re_theta;
     }
-    // Coles-Fernholz (Nagib, Chauhan & Monkewitz 2007): within 4 %.
-    EXPECT_LT(std::abs(error), 0.04) << "x = " << bl.x << ", Re_theta = " << bl.re_theta;
+    // Within the band of published values (published_cf_band).
+    const CfBand band = published_cf_band(bl.re_theta);
+    EXPECT_GE(bl.cf, band.low) << "x = " << bl.x << ", Re_theta = " << bl.re_theta;
+    EXPECT_LE(bl.cf, band.high) << "x = " << bl.x << ", Re_theta = " << bl.re_theta;
+    margin = std::min({margin, bl.cf / band.low - 1.0, 1.0 - bl.cf / band.high});
     ++n_checked;
   }
   EXPECT_GT(n_checked, 20);  // the window starts near x = 0.16 m on this grid
@@ -142,11 +164,6 @@ TEST_F(PlateSa, SkinFrictionAgainstColesFernholz) {
     const double cf_ks = test_support::karman_schoenherr_cf(bl.re_theta);
     const double error_ks = bl.cf / cf_ks - 1.0;
     worst_ks = std::max(worst_ks, std::abs(error_ks));
-    // Coles-Fernholz: within 4 % at the printed stations too.
-    EXPECT_LT(std::abs(bl.cf / cf_cf - 1.0), 0.04) << "x = " << x;
-    // Karman-Schoenherr sits about 4 % above Coles-Fernholz (both correlations of data with a few
-    // per cent scatter); 5 % is the loose bound a correlation supports.
-    EXPECT_LT(std::abs(error_ks), 0.05) << "x = " << x;
     if (is_root()) {
       std::printf("%7.3f %9.0f %11.5e %11.5e %7.2f%% %11.5e %7.2f%% %8.4f\n", x, bl.re_theta, bl.cf, cf_cf,
                   100.0 * (bl.cf / cf_cf - 1.0), cf_ks, 100.0 * error_ks,
@@ -156,8 +173,10 @@ TEST_F(PlateSa, SkinFrictionAgainstColesFernholz) {
   if (is_root()) {
     std::printf(
         "plate_sa: %d columns with %.0f < Re_theta < %.0f; largest |Cf/Cf_CF - 1| = %.2f %% (x = %.3f m, "
-        "Re_theta = %.0f); largest |Cf/Cf_KS - 1| at the stations = %.2f %%\n",
-        n_checked, re_theta_min, re_theta_max, 100.0 * std::abs(worst), worst_x, worst_re, 100.0 * worst_ks);
+        "Re_theta = %.0f); largest |Cf/Cf_KS - 1| at the stations = %.2f %%; smallest margin inside the "
+        "published band %.2f %%\n",
+        n_checked, re_theta_min, re_theta_max, 100.0 * std::abs(worst), worst_x, worst_re, 100.0 * worst_ks,
+        100.0 * margin);
   }
 }
 
@@ -169,17 +188,19 @@ TEST_F(PlateSa, LogLawAtProfileStations) {
   for (double x : spec_->output.profiles_at_x) {
     const auto profile = test_support::column_profile(*run_->solver, test_support::nearest_column(g, x));
     const BoundaryLayer bl = test_support::integrate(profile, nu());
-    double worst = 0.0;
+    double worst = -1e300;
     int n_points = 0;
     double y_plus_first = 0.0, y_plus_last = 0.0;
     for (size_t j = 0; j < profile.y.size(); ++j) {
       const double y_plus = profile.y[j] * bl.u_tau / nu();
       if (y_plus < 30.0 || profile.y[j] > 0.15 * bl.delta99) continue;
       const double u_plus = profile.u[j] / bl.u_tau;
-      const double log_law = std::log(y_plus) / 0.41 + 5.0;
-      // Within 3 % of the log law.
-      EXPECT_NEAR(u_plus, log_law, 0.03 * log_law) << "x = " << profile.x << ", y+ = " << y_plus;
-      worst = std::max(worst, std::abs(u_plus / log_law - 1.0));
+      // Within the band of the published log laws (log_law_band.hpp); the region ends at 0.15
+      // delta99, where the wake of a zero-pressure-gradient layer is still small.
+      const double low = test_support::log_law_lowest(y_plus), high = test_support::log_law_highest(y_plus);
+      EXPECT_GE(u_plus, low) << "x = " << profile.x << ", y+ = " << y_plus;
+      EXPECT_LE(u_plus, high) << "x = " << profile.x << ", y+ = " << y_plus;
+      worst = std::max({worst, low - u_plus, u_plus - high});
       if (n_points == 0) y_plus_first = y_plus;
       y_plus_last = y_plus;
       ++n_points;
@@ -188,8 +209,8 @@ TEST_F(PlateSa, LogLawAtProfileStations) {
     if (is_root()) {
       std::printf(
           "plate_sa: log law at x = %.3f m (Re_theta %.0f, delta99 = %.3e m): %d cells, y+ %.0f to %.0f, "
-          "largest |U+/U+_log - 1| = %.2f %%\n",
-          profile.x, bl.re_theta, bl.delta99, n_points, y_plus_first, y_plus_last, 100.0 * worst);
+          "largest distance outside the log-law band %+.3f (negative: inside)\n",
+          profile.x, bl.re_theta, bl.delta99, n_points, y_plus_first, y_plus_last, worst);
     }
   }
 }
@@ -212,7 +233,6 @@ TEST_F(PlateSa, ProfileBesideDnsInformational) {
     dns_u_plus.push_back(u_plus);
   }
   ASSERT_GT(dns_y_plus.size(), 500u);
-  constexpr double dns_re_theta = 4061.378, dns_cf = 0.002970989, dns_h12 = 1.387046;  // source header
 
   const Grid& g = *run_->grid;
   int best = -1;

@@ -59,3 +59,48 @@ TEST(SpalartAllmarasSource, SlopeMatchesFiniteDifferences) {
   EXPECT_GT(limiter_branch, 0);
   EXPECT_GT(negative_branch, 0);
 }
+
+// Spalart & Allmaras (1994) chose f_v2 so that nu_tilde = kappa u_tau y solves the model in the
+// whole constant-stress wall layer, viscous sublayer included: with the total stress
+// (nu + nu_tilde f_v1) dU/dy = u_tau^2 the modified vorticity is S~ = u_tau/(kappa y) exactly, so
+// r = 1, f_w = 1, production c_b1 u_tau^2 = destruction c_w1 kappa^2 u_tau^2 minus the diffusion
+// (1 + c_b2) kappa^2 u_tau^2 / sigma (the definition of c_w1), and the f_t2 terms cancel
+// (-c_b1 f_t2 S~ nu_tilde + (c_b1/kappa^2) f_t2 (nu_tilde/y)^2 = 0). Along this path S_bar/Omega >=
+// -0.61 (evaluated for 0 < chi < 200), so the S~ limiter of Allmaras, Johnson & Spalart (2012,
+// c_v2 = 0.7) stays inactive. Constants typed here from the 1994 paper (c_t3, c_t4 as listed by
+// Allmaras, Johnson & Spalart 2012); f_v1 too, so a wrong c_v1 in the model breaks the identity.
+TEST(SpalartAllmarasWallLayer, KappaUtauYIsAnExactSolution) {
+  constexpr double cb1 = 0.1355, cb2 = 0.622, sigma = 2.0 / 3.0, kappa = 0.41, cv1 = 7.1;
+  constexpr double ct3 = 1.2, ct4 = 0.5;
+  constexpr double cw1 = cb1 / (kappa * kappa) + (1.0 + cb2) / sigma;
+  const double nu = 1.5e-5, u_tau = 0.8;
+  int checked = 0;
+  for (const bool ft2 : {false, true}) {
+    for (const double y_plus : {0.05, 0.5, 1.0, 2.0, 5.0, 10.0, 30.0, 100.0, 1e3, 1e4}) {
+      const double y = y_plus * nu / u_tau;
+      const double nt = kappa * u_tau * y, chi = nt / nu;
+      const double fv1 = chi * chi * chi / (chi * chi * chi + cv1 * cv1 * cv1);
+      const double omega = u_tau * u_tau / (nu + nt * fv1);  // dU/dy from the constant total stress
+      const double grad_sq = kappa * kappa * u_tau * u_tau;  // |d nu_tilde/dy|^2
+      for (const bool negative : {false, true}) {
+        if (ft2 && negative) continue;  // wallrans' negative variant has no f_t2
+        const SaSource s = sa_source(nt, nu, y, omega, grad_sq, ft2, negative);
+        const double f_t2 = ft2 ? ct3 * std::exp(-ct4 * chi * chi) : 0.0;
+        const double scale = cb1 * u_tau * u_tau;
+        // Production c_b1 (1 - f_t2) S~ nu_tilde with S~ = u_tau/(kappa y): c_b1 (1 - f_t2) u_tau^2.
+        // Round-off: a few tens of operations, 1e-13 of the scale.
+        EXPECT_NEAR(s.production, (1.0 - f_t2) * scale, 1e-13 * scale) << "y+ " << y_plus << " ft2 " << ft2;
+        // f_w(r = 1) = 1: destruction [c_w1 - (c_b1/kappa^2) f_t2] kappa^2 u_tau^2.
+        const double destruction = s.destruction_coefficient * nt;
+        EXPECT_NEAR(destruction, (cw1 - cb1 / (kappa * kappa) * f_t2) * kappa * kappa * u_tau * u_tau,
+                    1e-13 * scale)
+            << "y+ " << y_plus << " ft2 " << ft2;
+        // Balance: d/dy((nu + nu_tilde) d nu_tilde/dy) = kappa^2 u_tau^2 exactly (nu_tilde linear).
+        const double balance = s.production - destruction + s.gradient_term + grad_sq / sigma;
+        EXPECT_NEAR(balance, 0.0, 1e-13 * scale) << "y+ " << y_plus << " ft2 " << ft2;
+        ++checked;
+      }
+    }
+  }
+  EXPECT_EQ(checked, 30);
+}
