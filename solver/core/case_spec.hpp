@@ -107,8 +107,11 @@ struct OutputSpec {
 
 /// Checkpoints (parallel HDF5) and stopping within a wall-clock budget.
 struct CheckpointSpec {
-  int every = 0;  ///< write a checkpoint every N iterations (0: only when stopped early)
-  int keep = 2;   ///< newest checkpoints kept in the run directory, >= 1
+  int every = 0;  ///< write a checkpoint every N iterations (0: not by iteration count)
+  /// Also write one when this much wall-clock time [s] has passed since the last one (0: off), so
+  /// a hard kill loses at most about this much work.
+  double every_seconds = 600.0;
+  int keep = 2;  ///< newest checkpoints of this case kept in the run directory, >= 1
   std::optional<std::string> restart_from;  ///< checkpoint file to continue from
   std::optional<double> walltime;           ///< wall-clock budget [s]: checkpoint and stop before it ends
 };
