@@ -198,6 +198,9 @@ double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
   check_petsc(DMDAVecRestoreArray(grid_.dm(), solution_.get(), &x));
   check_petsc(KSPSetOperators(ksp_.get(), matrix_.mat(), matrix_.mat()));
   check_petsc(KSPSolve(ksp_.get(), rhs_.get(), solution_.get()));
+  KSPConvergedReason reason;
+  check_petsc(KSPGetConvergedReason(ksp_.get(), &reason));
+  linear_solve_converged_ = reason >= 0 || reason == KSP_DIVERGED_ITS;
   check_petsc(DMDAVecGetArray(grid_.dm(), solution_.get(), &x));
   for (int j = grid_.y_begin(); j < grid_.y_end(); ++j)
     for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) phi(i, j) = x[j][i];

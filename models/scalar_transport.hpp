@@ -40,6 +40,10 @@ class ScalarTransport {
   /// (identity rows with zero right-hand side).
   double solve(const MeanFlowView& flow, ScalarEquation& equation);
 
+  /// Whether the linear solve of the last step converged (KSP converged reason checked; hitting
+  /// the iteration cap is tolerated, a breakdown is not).
+  bool linear_solve_converged() const { return linear_solve_converged_; }
+
   /// Least-squares gradient of the last solved phi (owned and ghost cells, before the step).
   const VectorField& gradient() const { return grad_; }
   VectorField& gradient() { return grad_; }  // restart state
@@ -70,6 +74,7 @@ class ScalarTransport {
   StencilMatrix matrix_;
   OwnedVec rhs_, solution_;
   OwnedKsp ksp_;
+  bool linear_solve_converged_ = true;
 };
 
 }  // namespace wallrans

@@ -42,6 +42,7 @@ class SpalartAllmaras final : public WallBoundedModel {
   std::string name() const override { return "spalart_allmaras/" + spec_.turbulence.variant; }
   void update(const MeanFlowView& flow) override;
   std::vector<ModelResidual> residuals() const override { return {{"nu_tilde", residual_}}; }
+  bool linear_solves_converged() const override { return transport_.linear_solve_converged(); }
   std::vector<std::pair<std::string, const Field*>> output_fields() const override;
   std::vector<std::pair<std::string, Field*>> restart_state() override {
     return {{"nu_tilde", &nu_tilde_},

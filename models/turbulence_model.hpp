@@ -45,6 +45,9 @@ class TurbulenceModel {
   /// Eddy viscosity nu_t [m^2/s] in the ghosted range (ghosts current after update()).
   virtual const Field& eddy_viscosity() const = 0;
   virtual std::vector<ModelResidual> residuals() const { return {}; }
+  /// Whether the model's linear solves of the last update() converged (reaching the iteration
+  /// cap is tolerated, as for the momentum and pressure solves; a breakdown is not).
+  virtual bool linear_solves_converged() const { return true; }
   /// Every cell field the model needs to continue bit-identically after a restart (its
   /// variables, the eddy viscosity and any lagged state), named for the checkpoint; borrowed.
   virtual std::vector<std::pair<std::string, Field*>> restart_state() { return {}; }

@@ -16,17 +16,25 @@ namespace {
 
 constexpr const char* usage =
     "usage: wallrans <command> [arguments]\n"
-    "  run CASE.yaml [--output-dir DIR] [--max-iterations N] [--quiet] [--restart FILE.h5] [--walltime S]\n"
-    "                  solve the case; writes fields (VTK), residuals.csv, wall.csv, summary.json\n"
-    "  check CASE.yaml validate the case and its grid without running; writes nothing\n"
+    "  run CASE.yaml [--output-dir DIR] [--max-iterations N] [--quiet] [--walltime S]\n"
+    "                [--restart FILE.h5 | --resume] [--replace-results]\n"
+    "                  solve the case; writes fields (VTK), residuals.csv, wall.csv, checkpoints and\n"
+    "                  summary.json (whose \"status\" says how the run ended) into the run directory\n"
+    "  check CASE.yaml [same options as run]\n"
+    "                  make every check run makes before it starts iterating; writes nothing\n"
     "  write-grid CASE.yaml GRID.h5\n"
     "                  write the case's grid with its boundary patches (docs/grid-file.md)\n"
     "  version         print the version\n"
+    "  --max-iterations N   iterations of this run (also after a restart), overrides iterations.max\n"
+    "  --restart FILE.h5    continue from this checkpoint\n"
+    "  --resume             continue from this case's newest checkpoint in the run directory, if any\n"
+    "  --replace-results    delete another case's results from the run directory before running\n"
+    "  --walltime S         write a checkpoint and stop before S seconds of wall-clock time\n"
     "PETSc options for the linear solvers go last, e.g. -pressure_ksp_rtol 1e-3\n"
-    "(prefixes: -momentum_, -pressure_).\n"
-    "exit codes: 0 converged/valid, 2 bad input, 3 iteration cap reached, 4 diverged,\n"
-    "            5 stopped by SIGTERM/SIGINT or the wall-clock budget (checkpoint written), 1 other "
-    "failure\n";
+    "(prefixes: -momentum_, -pressure_, -turbulence_).\n"
+    "exit codes: 0 converged/valid, 2 bad input or run directory in use, 3 iteration cap reached,\n"
+    "            4 diverged, 5 stopped by SIGTERM/SIGINT/SIGUSR1 or the wall-clock budget (checkpoint\n"
+    "            written), 1 other failure\n";
 
 struct Arguments {
   std::string command;
@@ -70,10 +78,14 @@ Arguments parse(int argc, char** argv) {
         a.run.restart = value();
       else if (arg == "--walltime")
         a.run.walltime = parse_int(arg, value());
+      else if (arg == "--resume")
+        a.run.resume = true;
+      else if (arg == "--replace-results")
+        a.run.replace_results = true;
       else
-        throw wallrans::InputError(
-            "command line: unknown option '" + arg +
-            "'; expected --output-dir, --max-iterations, --quiet, --restart or --walltime");
+        throw wallrans::InputError("command line: unknown option '" + arg +
+                                   "'; expected --output-dir, --max-iterations, --quiet, --restart, "
+                                   "--resume, --replace-results or --walltime");
       continue;
     }
     if (arg.size() > 1 && arg[0] == '-') {
@@ -107,6 +119,10 @@ Arguments parse(int argc, char** argv) {
                                std::to_string(positional.size() - 1));
   }
   a.run.case_file = positional[1];
+  if (a.run.resume && a.run.restart) {
+    throw wallrans::InputError(
+        "command line: --resume: expected either --resume or --restart FILE, got both");
+  }
   return a;
 }
 
@@ -116,6 +132,8 @@ int main(int argc, char** argv) {
   wallrans::PetscSession session(&argc, &argv);
   int rank = 0;
   MPI_Comm_rank(MPI_COMM_WORLD, &rank);
+  // Every normal outcome (0, 2, 3, 4, 5) is reached by all ranks together with the same code and
+  // leaves through the session's MPI_Finalize; only a failure that may be one rank's alone aborts.
   int code = 0;
   try {
     const Arguments a = parse(argc, argv);
@@ -124,7 +142,7 @@ int main(int argc, char** argv) {
     } else if (a.command == "version") {
       if (rank == 0) std::printf("wallrans %s\n", WALLRANS_VERSION);
     } else if (a.command == "check") {
-      code = wallrans::check_case(MPI_COMM_WORLD, a.run.case_file);
+      code = wallrans::check_case(MPI_COMM_WORLD, a.run);
     } else if (a.command == "write-grid") {
       code = wallrans::write_case_grid(MPI_COMM_WORLD, a.run.case_file, a.grid_file);
     } else {

@@ -1,20 +1,26 @@
-// Drives one case: load and validate everything first (so bad input writes nothing), then
-// iterate with a live residual line, and write history, fields, wall data and a summary.
+// Drives one case: validate everything first (so bad input writes nothing), claim the run
+// directory, iterate with a live residual line, and write history, fields, wall data and a
+// summary that says how the run ended.
 #include "app/run_case.hpp"
+
+#include <unistd.h>
 
 #include <chrono>
 #include <cmath>
-#include <csignal>
 #include <cstdio>
 #include <cstdlib>
 #include <filesystem>
-#include <fstream>
 #include <memory>
-#include <sstream>
 
+#include "app/case_identity.hpp"
 #include "app/checkpointing.hpp"
+#include "app/profiles.hpp"
+#include "app/run_directory.hpp"
+#include "app/run_summary.hpp"
+#include "app/stop_signals.hpp"
 #include "core/atomic_file.hpp"
 #include "core/error.hpp"
+#include "core/utc_time.hpp"
 #include "coupling/flow_solver.hpp"
 #include "coupling/nested_start.hpp"
 #include "grid/boundary.hpp"
@@ -24,6 +30,7 @@
 #include "io/gather.hpp"
 #include "io/grid_file.hpp"
 #include "io/grid_file_case.hpp"
+#include "io/rank_agreement.hpp"
 #include "io/vtk_writer.hpp"
 #include "models/model_factory.hpp"
 
@@ -31,11 +38,8 @@ namespace wallrans {
 
 namespace {
 
-// Set by SIGTERM/SIGINT (what cluster schedulers send). A signal handler can only touch a
-// lock-free flag of static storage, so this is the program's one piece of global state.
-volatile std::sig_atomic_t stop_requested = 0;
-
-extern "C" void request_stop(int) { stop_requested = 1; }
+namespace fs = std::filesystem;
+using Clock = std::chrono::steady_clock;
 
 // Test-only kill switch: WALLRANS_TEST_KILL_IN_CHECKPOINT="<iteration>:<datasets>" kills every
 // rank after that many datasets of the checkpoint of that iteration (see write_checkpoint).
@@ -47,18 +51,20 @@ int kill_switch(int iteration) {
   return at == iteration ? datasets : -1;
 }
 
-constexpr const char* caution =
-    "RANS results are model-dependent: validate them for your case and defer to applicable codes "
-    "and licensed engineering practice.";
-
+// Everything `run` settles before it builds the solver; `check` stops there.
 struct Setup {
   CaseSpec spec;
   std::unique_ptr<Grid> grid;
   std::unique_ptr<BoundaryMap> boundaries;
   std::string grid_note;  ///< what loading a grid file repaired ("" if nothing)
+  std::string case_id;
+  RunDirectoryRequest directory;
+  DirectoryContent content = DirectoryContent::empty;
+  std::optional<std::string> restart;
 };
 
-// Wraps messages from the grid generators and the boundary map with the case file name.
+// Collective. Loads the case and builds its grid and boundary map. Messages of the generators
+// and the boundary map get the case file name.
 Setup build(MPI_Comm comm, const std::string& case_file) {
   Setup s;
   s.spec = load_case_file(case_file);
@@ -86,6 +92,32 @@ Setup build(MPI_Comm comm, const std::string& case_file) {
   return s;
 }
 
+// Collective. build(), then judges the run directory and the restart checkpoint.
+Setup prepare(MPI_Comm comm, const RunOptions& options) {
+  Setup s = build(comm, options.case_file);
+  CaseSpec& spec = s.spec;
+  if (options.output_directory) spec.output.directory = *options.output_directory;
+  if (options.max_iterations) spec.iterations.max = *options.max_iterations;
+  s.case_id = case_identity(spec);
+  s.directory.path = spec.output.directory;
+  s.directory.origin =
+      options.output_directory ? "command line: --output-dir" : spec.source_file + ": key 'output.directory'";
+  s.directory.case_id = s.case_id;
+  s.directory.title = spec.title;
+  s.directory.case_file = spec.source_file;
+  s.directory.replace_results = options.replace_results;
+  if (!options.resume) s.directory.restart = options.restart ? options.restart : spec.checkpoint.restart_from;
+  // A checkpoint that does not fit the case is the more specific message, so it comes first.
+  s.restart = s.directory.restart;
+  if (s.restart) check_restart_file(comm, *s.restart, spec, *s.grid);
+  s.content = inspect_run_directory(comm, s.directory);
+  if (options.resume && s.content == DirectoryContent::same_case) {
+    s.restart = newest_checkpoint_of_case(comm, spec.output.directory, s.case_id);
+    if (s.restart) check_restart_file(comm, *s.restart, spec, *s.grid);
+  }
+  return s;
+}
+
 // Collective. What the run prints when its grid comes from a file: the file, any repair note and
 // the quality report ("" for a generated grid).
 std::string file_grid_report(const Setup& s) {
@@ -97,83 +129,241 @@ std::string file_grid_report(const Setup& s) {
   return text + quality_report(quality, *s.boundaries);
 }
 
-std::string json_number(double x) {
-  if (!std::isfinite(x)) return "null";
-  char buffer[40];
-  std::snprintf(buffer, sizeof buffer, "%.10g", x);
-  return buffer;
-}
-
-std::string json_string(const std::string& s) {
-  std::string out = "\"";
-  for (char c : s) {
-    if (c == '"' || c == '\\') out += '\\';
-    if (static_cast<unsigned char>(c) < 0x20) continue;
-    out += c;
-  }
-  return out + "\"";
-}
-
-// Profiles along the grid column containing each station x, measured from the bottom wall:
-// y (normal distance to the bottom wall face of the column), y+, U+ = u_t/u_tau, nu_t/nu.
-void write_profiles(const CaseSpec& spec, const FlowSolver& solver, const std::filesystem::path& dir,
-                    MPI_Comm comm) {
-  const Grid& grid = solver.grid();
+int rank_of(MPI_Comm comm) {
   int rank = 0;
-  MPI_Comm_rank(comm, &rank);
-  const double nu = spec.flow.kinematic_viscosity;
-  for (size_t station = 0; station < spec.output.profiles_at_x.size(); ++station) {
-    const double x = spec.output.profiles_at_x[station];
-    int column = -1;
-    for (int i = 0; i < grid.cells_x(); ++i)
-      if (grid.node(i, 0).x <= x && x < grid.node(i + 1, 0).x) column = i;
-    if (column < 0) {
-      if (rank == 0)
-        std::printf("wallrans: warning: profile station x = %g is outside the grid; skipped\n", x);
-      continue;
-    }
-    // The bottom face of the column and its shear stress (owned by one rank, summed over all).
-    const Vec2 a = grid.node(column, 0), b = grid.node(column + 1, 0);
-    const Vec2 face_centre = 0.5 * (a + b);
-    const Vec2 normal = (1.0 / norm(b - a)) * Vec2{-(b - a).y, (b - a).x};  // into the domain
-    double tau = 0.0;
-    for (const auto& w : solver.wall_samples())
-      if (!w.on_solid && w.side == Side::bottom && w.index == column) tau = w.shear_stress;
-    double tau_all = 0.0;
-    MPI_Allreduce(&tau, &tau_all, 1, MPI_DOUBLE, MPI_SUM, comm);
-    const double u_tau = std::sqrt(std::abs(tau_all));
-    const Vec2 tangent{normal.y, -normal.x};
-    std::vector<std::vector<double>> rows;
-    if (column >= grid.x_begin() && column < grid.x_end()) {
-      for (int j = grid.y_begin(); j < grid.y_end(); ++j) {
-        const Vec2 c = grid.centre(column, j);
-        const double y = dot(c - face_centre, normal);
-        const double ut = dot(solver.velocity()(column, j), tangent);
-        const double nut = solver.eddy_viscosity()(column, j);
-        rows.push_back(
-            {c.x, c.y, y, u_tau > 0 ? y * u_tau / nu : 0.0, ut, u_tau > 0 ? ut / u_tau : 0.0, nut / nu});
-      }
-    }
-    const auto all = gather_rows(comm, rows, 7);
-    if (rank == 0) {
-      CsvWriter out((dir / ("profile_" + std::to_string(station) + ".csv")).string(),
-                    {"x", "y", "wall_distance", "y_plus", "u_tangential", "u_plus", "nut_over_nu"});
-      for (const auto& row : all) out.row(row);
+  check_mpi(MPI_Comm_rank(comm, &rank));
+  return rank;
+}
+
+// The history file: on a restart the rows up to the restart iteration are kept.
+std::unique_ptr<CsvWriter> open_history(const fs::path& dir, const TurbulenceModel& model,
+                                        int first_iteration) {
+  std::vector<std::vector<double>> earlier;
+  if (first_iteration > 0 && fs::exists(dir / "residuals.csv")) {
+    try {
+      for (const auto& row : read_csv((dir / "residuals.csv").string()).rows)
+        if (!row.empty() && row[0] <= first_iteration) earlier.push_back(row);
+    } catch (const InputError&) {
+      earlier.clear();  // an unreadable old history is replaced, not fatal
     }
   }
+  std::vector<std::string> columns{"iteration", "u_residual", "v_residual", "continuity_residual"};
+  for (const auto& r : model.residuals()) columns.push_back(r.name + "_residual");
+  for (const char* c : {"u_residual_abs", "v_residual_abs", "continuity_residual_abs"}) columns.push_back(c);
+  for (const auto& r : model.residuals()) columns.push_back(r.name + "_residual_abs");
+  for (const char* c : {"momentum_linear_its", "pressure_linear_its", "elapsed_s"}) columns.push_back(c);
+  auto history = std::make_unique<CsvWriter>((dir / "residuals.csv").string(), columns);
+  for (const auto& row : earlier)
+    if (row.size() == columns.size()) history->row(row);
+  return history;
+}
+
+// One run after its directory is claimed: iterate, then write the outputs and the summary.
+class Run {
+ public:
+  Run(MPI_Comm comm, const RunOptions& options, const CaseSpec& spec, const TurbulenceModel& model,
+      FlowSolver& solver, RunCheckpoints& checkpoints, const RunDirectory& directory, RunSummary& summary,
+      Clock::time_point start)
+      : comm_(comm),
+        options_(options),
+        spec_(spec),
+        model_(model),
+        solver_(solver),
+        checkpoints_(checkpoints),
+        dir_(directory.path()),
+        summary_(summary),
+        start_(start),
+        rank_(rank_of(comm)) {}
+
+  int execute(int first_iteration, const StopSignals& signals);
+
+ private:
+  double elapsed() const { return std::chrono::duration<double>(Clock::now() - start_).count(); }
+  void checkpoint();
+  void record(const IterationStatus& status, bool converged, bool diverged);
+  void write_outputs();
+  void finish(RunStatus status, const std::string& detail);
+
+  MPI_Comm comm_;
+  const RunOptions& options_;
+  const CaseSpec& spec_;
+  const TurbulenceModel& model_;
+  FlowSolver& solver_;
+  RunCheckpoints& checkpoints_;
+  fs::path dir_;
+  RunSummary& summary_;
+  Clock::time_point start_;
+  int rank_;
+  std::unique_ptr<CsvWriter> history_;
+  IterationStatus status_;
+  int checkpoint_iteration_ = -1;
+  double checkpoint_time_ = 0.0, checkpoint_seconds_ = 0.0;
+};
+
+void Run::checkpoint() {
+  const double before = elapsed();
+  const std::string path = checkpoints_.write(dir_.string(), kill_switch(status_.iteration));
+  checkpoint_time_ = elapsed();
+  checkpoint_seconds_ = checkpoint_time_ - before;
+  checkpoint_iteration_ = status_.iteration;
+  summary_.checkpoint = fs::path(path).filename().string();
+}
+
+void Run::record(const IterationStatus& status, bool converged, bool diverged) {
+  if (rank_ != 0) return;
+  const auto& r = status.normalised;
+  std::vector<double> row{double(status.iteration), r.u, r.v, r.continuity};
+  for (double m : status.model_normalised) row.push_back(m);
+  for (double a : {status.absolute.u, status.absolute.v, status.absolute.continuity}) row.push_back(a);
+  for (const auto& m : status.model_absolute) row.push_back(m.value);
+  for (double a : {double(status.momentum_iterations), double(status.pressure_iterations), elapsed()})
+    row.push_back(a);
+  history_->row(row);
+  const int every = spec_.iterations.report_every;
+  if (!options_.quiet && every > 0 &&
+      (status.iteration % every == 0 || status.iteration == 1 || converged || diverged)) {
+    std::printf("%8d %12.4e %12.4e %12.4e", status.iteration, r.u, r.v, r.continuity);
+    for (double m : status.model_normalised) std::printf(" %12.4e", m);
+    const bool solves_ok = status.linear_solves_converged && model_.linear_solves_converged();
+    std::printf(" %8.1f%s\n", elapsed(), solves_ok ? "" : "  (a linear solve broke down)");
+    std::fflush(stdout);
+  }
+}
+
+int Run::execute(int first_iteration, const StopSignals& signals) {
+  if (rank_ == 0) {
+    history_ = open_history(dir_, model_, first_iteration);
+    std::printf("%8s %12s %12s %12s", "iter", "res_u", "res_v", "res_mass");
+    for (const auto& m : model_.residuals()) std::printf(" %12s", ("res_" + m.name).c_str());
+    std::printf(" %8s\n", "time_s");
+  }
+  status_.iteration = first_iteration;
+  checkpoint_time_ = elapsed();
+  const int last = first_iteration + spec_.iterations.max;  // the cap counts this run's iterations
+  const std::optional<double> walltime = options_.walltime ? options_.walltime : spec_.checkpoint.walltime;
+  const double cadence = spec_.checkpoint.every_seconds;
+  bool converged = false, diverged = false;
+  std::string stop_reason;
+  double slowest_iteration = 0.0;
+  while (status_.iteration < last) {
+    const double before = elapsed();
+    status_ = solver_.iterate();
+    summary_.iteration = status_.iteration;
+    slowest_iteration = std::max(slowest_iteration, elapsed() - before);
+    converged = solver_.converged(status_);
+    const auto& r = status_.normalised;
+    diverged = !std::isfinite(r.u + r.v + r.continuity) || r.u > 1e8 || r.v > 1e8;
+    record(status_, converged, diverged);
+    if (converged || diverged) break;
+    if (spec_.output.fields_every > 0 && status_.iteration % spec_.output.fields_every == 0) {
+      std::vector<NamedScalar> scalars{{"pressure", &solver_.pressure()},
+                                       {"eddy_viscosity", &solver_.eddy_viscosity()},
+                                       {"solid", &solver_.solid()}};
+      for (const auto& [name, field] : model_.output_fields()) scalars.push_back({name, field});
+      write_vtk_fields(solver_.grid(), scalars, {{"velocity", &solver_.velocity()}}, dir_.string(),
+                       "fields_" + std::to_string(status_.iteration));
+    }
+    if (spec_.checkpoint.every > 0 && status_.iteration % spec_.checkpoint.every == 0) checkpoint();
+    // All ranks decide together: stop (2 a signal on some rank, 1 when one more iteration plus a
+    // checkpoint, with margin, would overrun the wall-clock budget) and a checkpoint due by time.
+    const double now = elapsed();
+    int decide[2] = {signals.requested() ? 2 : 0, cadence > 0 && now - checkpoint_time_ >= cadence ? 1 : 0};
+    if (decide[0] == 0 && walltime &&
+        now + 2.0 * slowest_iteration + 2.0 * checkpoint_seconds_ + 1.0 > *walltime)
+      decide[0] = 1;
+    check_mpi(MPI_Allreduce(MPI_IN_PLACE, decide, 2, MPI_INT, MPI_MAX, comm_));
+    if (decide[0] > 0) {
+      stop_reason = decide[0] == 1 ? "wall-clock budget" : signals.requested() ? signals.name() : "signal";
+      break;
+    }
+    if (decide[1] && checkpoint_iteration_ != status_.iteration) checkpoint();
+  }
+  summary_.residual_u = status_.normalised.u;
+  summary_.residual_v = status_.normalised.v;
+  summary_.residual_continuity = status_.normalised.continuity;
+  if (diverged) {
+    // The last checkpoint stays; no fields, so nothing on disk looks like a result.
+    finish(RunStatus::diverged, "residuals became non-finite or exceeded 1e8 at iteration " +
+                                    std::to_string(status_.iteration) + "; fields not written");
+    return exit_code(RunStatus::diverged);
+  }
+  // A checkpoint at the end of every run that did not diverge, so it can be continued.
+  if (checkpoint_iteration_ != status_.iteration) checkpoint();
+  if (!stop_reason.empty() && rank_ == 0) {
+    std::printf("wallrans: stopped at iteration %d (%s); checkpoint written\n", status_.iteration,
+                stop_reason.c_str());
+  }
+  write_outputs();
+  const RunStatus status = converged              ? RunStatus::converged
+                           : !stop_reason.empty() ? RunStatus::stopped
+                                                  : RunStatus::capped;
+  finish(status, stop_reason.empty() ? "" : "stopped by " + stop_reason);
+  return exit_code(status);
+}
+
+void Run::write_outputs() {
+  std::vector<NamedScalar> scalars{{"pressure", &solver_.pressure()},
+                                   {"eddy_viscosity", &solver_.eddy_viscosity()},
+                                   {"solid", &solver_.solid()}};
+  for (const auto& [name, field] : model_.output_fields()) scalars.push_back({name, field});
+  write_vtk_fields(solver_.grid(), scalars, {{"velocity", &solver_.velocity()}}, dir_.string(), "fields");
+  if (spec_.output.wall_data) {
+    std::vector<std::vector<double>> rows;
+    for (const auto& w : solver_.wall_samples()) {
+      const double yplus =
+          w.first_cell_distance * std::sqrt(std::abs(w.shear_stress)) / spec_.flow.kinematic_viscosity;
+      rows.push_back({w.centre.x, w.centre.y, w.cf, w.cp, w.shear_stress, w.first_cell_distance, yplus});
+    }
+    const auto all = gather_rows(comm_, rows, 7);
+    if (rank_ == 0) {
+      CsvWriter wall((dir_ / "wall.csv").string(),
+                     {"x", "y", "cf", "cp", "wall_shear_stress", "first_cell_distance", "first_cell_y_plus"});
+      for (const auto& row : all) wall.row(row);
+    }
+  }
+  write_profiles(spec_, solver_, dir_, comm_);
+}
+
+void Run::finish(RunStatus status, const std::string& detail) {
+  summary_.status = status;
+  summary_.detail = detail;
+  summary_.wall_time_s = elapsed();
+  std::optional<Failure> failure;
+  if (rank_ == 0) failure = attempt([&] { write_summary(dir_, summary_); });
+  agree(comm_, failure);
+  if (rank_ != 0) return;
+  switch (status) {
+    case RunStatus::diverged:
+      std::printf("wallrans: diverged: %s (residuals.csv and earlier checkpoints kept)\n", detail.c_str());
+      break;
+    case RunStatus::converged:
+    case RunStatus::stopped:
+    case RunStatus::capped:
+      std::printf("wallrans: %s after %d iterations (%.1f s); results in %s\n",
+                  status == RunStatus::converged ? "converged"
+                  : status == RunStatus::stopped ? "stopped early (restart from the last checkpoint)"
+                                                 : "NOT converged (iteration cap reached)",
+                  status_.iteration, summary_.wall_time_s, dir_.string().c_str());
+      std::printf(
+          "note: RANS results are model-dependent: validate them for your case and defer to applicable "
+          "codes and licensed engineering practice.\n");
+      break;
+    default:
+      break;
+  }
+  std::fflush(stdout);
 }
 
 }  // namespace
 
-int check_case(MPI_Comm comm, const std::string& case_file) {
-  Setup s = build(comm, case_file);
+int check_case(MPI_Comm comm, const RunOptions& options) {
+  Setup s = prepare(comm, options);
   (void)make_turbulence_model(s.spec, *s.grid, *s.boundaries);
   const GridQuality q = measure_quality(*s.grid, *s.boundaries);
-  int rank = 0, size = 1;
-  MPI_Comm_rank(comm, &rank);
+  int size = 1;
   MPI_Comm_size(comm, &size);
-  if (rank == 0) {
-    std::printf("%s: case '%s' is valid\n", case_file.c_str(), s.spec.title.c_str());
+  if (rank_of(comm) == 0) {
+    std::printf("%s: case '%s' is valid\n", options.case_file.c_str(), s.spec.title.c_str());
     if (!s.grid_note.empty()) std::printf("  note: %s\n", s.grid_note.c_str());
     std::printf("  grid: %d x %d cells%s%s, %d rank(s)\n%s", s.grid->cells_x(), s.grid->cells_y(),
                 s.spec.grid.file.empty() ? "" : " from ", s.spec.grid.file.c_str(), size,
@@ -183,6 +373,12 @@ int check_case(MPI_Comm comm, const std::string& case_file) {
         s.spec.flow.kinematic_viscosity,
         s.spec.flow.reference_velocity * s.spec.flow.reference_length / s.spec.flow.kinematic_viscosity,
         s.spec.turbulence.model.c_str(), s.spec.boundaries.size());
+    const char* content = s.content == DirectoryContent::empty ? "new or empty"
+                          : s.content == DirectoryContent::same_case
+                              ? "holds this case's results"
+                              : "holds other results (--replace-results)";
+    std::printf("  run directory: %s (%s); %s\n", s.directory.path.c_str(), content,
+                s.restart ? ("restarts from " + *s.restart).c_str() : "starts from iteration 0");
   }
   return 0;
 }
@@ -191,9 +387,7 @@ int write_case_grid(MPI_Comm comm, const std::string& case_file, const std::stri
   const Setup s = build(comm, case_file);
   const GridFileContent content{s.grid->nodes(), case_patches(*s.boundaries)};
   write_grid_file(comm, grid_file, content);
-  int rank = 0;
-  MPI_Comm_rank(comm, &rank);
-  if (rank == 0) {
+  if (rank_of(comm) == 0) {
     std::printf("wallrans: wrote the grid of '%s' (%d x %d cells, %zu patches) to %s\n", case_file.c_str(),
                 s.grid->cells_x(), s.grid->cells_y(), content.patches.size(), grid_file.c_str());
   }
@@ -201,222 +395,94 @@ int write_case_grid(MPI_Comm comm, const std::string& case_file, const std::stri
 }
 
 int run_case(MPI_Comm comm, const RunOptions& options) {
-  const auto start = std::chrono::steady_clock::now();
-  Setup s = build(comm, options.case_file);
-  CaseSpec& spec = s.spec;
-  if (options.output_directory) spec.output.directory = *options.output_directory;
-  if (options.max_iterations) spec.iterations.max = *options.max_iterations;
+  const StopSignals signals;
+  const auto start = Clock::now();
+  Setup s = prepare(comm, options);
+  const CaseSpec& spec = s.spec;
   const Grid& grid = *s.grid;
   const std::string grid_report = file_grid_report(s);
   auto model = make_turbulence_model(spec, grid, *s.boundaries);
   FlowSolver solver(spec, grid, *s.boundaries, *model);
-  const std::string case_text = resolved_case_yaml(spec);
-  RunCheckpoints checkpoints(spec, grid, solver, *model, case_text);
+  RunCheckpoints checkpoints(spec, grid, solver, *model, s.case_id);
   // Restart before anything is written: a bad checkpoint stops the run with the run directory
   // untouched.
-  const std::optional<std::string> restart = options.restart ? options.restart : spec.checkpoint.restart_from;
-  int first_iteration = 0;
-  if (restart) first_iteration = checkpoints.restart_from(*restart);
-  const std::optional<double> walltime = options.walltime ? options.walltime : spec.checkpoint.walltime;
+  const int first_iteration = s.restart ? checkpoints.restart_from(*s.restart) : 0;
+  const int rank = rank_of(comm);
+  RunDirectory directory(comm, s.directory, s.restart ? first_iteration : -1,
+                         [&](const std::string& file) { return is_checkpoint_of_case(file, s.case_id); });
 
-  int rank = 0, size = 1;
-  MPI_Comm_rank(comm, &rank);
-  MPI_Comm_size(comm, &size);
-  const std::filesystem::path dir = spec.output.directory;
-  int dir_ok = 1;
-  std::string dir_error;
+  RunSummary summary;
+  summary.title = spec.title;
+  summary.case_file = spec.source_file;
+  summary.case_id = s.case_id;
+  summary.model = model->name();
+  summary.host = host_name();
+  summary.pid = static_cast<long>(getpid());
+  summary.started = utc_now();
+  check_mpi(MPI_Comm_size(comm, &summary.ranks));
+  summary.cells_x = grid.cells_x();
+  summary.cells_y = grid.cells_y();
+  summary.first_iteration = summary.iteration = first_iteration;
+  summary.residual_drop = spec.iterations.residual_drop;
+  std::optional<Failure> failure;
   if (rank == 0) {
-    std::error_code ec;
-    std::filesystem::create_directories(dir, ec);
-    if (ec) {
-      dir_ok = 0;
-      dir_error = ec.message();
-    }
+    failure = attempt([&] {
+      write_file_atomically(directory.path() / "case.resolved.yaml", resolved_case_yaml(spec),
+                            "run directory");
+      write_summary(directory.path(), summary);
+      if (options.resume && !s.restart)
+        std::printf("wallrans: note: no checkpoint of this case in %s; starting from iteration 0\n",
+                    directory.path().c_str());
+      if (first_iteration > 0)
+        std::printf("wallrans: restarted from %s at iteration %d\n", s.restart->c_str(), first_iteration);
+      std::fputs(grid_report.c_str(), stdout);
+      std::printf("wallrans: case '%s', %d x %d cells on %d rank(s), model %s\n", spec.title.c_str(),
+                  grid.cells_x(), grid.cells_y(), summary.ranks, model->name().c_str());
+    });
   }
-  MPI_Bcast(&dir_ok, 1, MPI_INT, 0, comm);
-  if (!dir_ok) {
-    const std::string origin = options.output_directory ? "command line: --output-dir"
-                                                        : spec.source_file + ": key 'output.directory'";
-    throw InputError(origin + ": expected a directory that can be created, got '" + dir.string() + "' (" +
-                     dir_error + ")");
-  }
-
-  std::unique_ptr<CsvWriter> history;
-  if (rank == 0) {
-    write_file_atomically(dir / "case.resolved.yaml", case_text, "run directory");
-    // On a restart, keep the history rows up to the restart iteration.
-    std::vector<std::vector<double>> earlier;
-    if (first_iteration > 0 && std::filesystem::exists(dir / "residuals.csv")) {
-      try {
-        for (const auto& row : read_csv((dir / "residuals.csv").string()).rows)
-          if (!row.empty() && row[0] <= first_iteration) earlier.push_back(row);
-      } catch (const InputError&) {
-        earlier.clear();  // an unreadable old history is replaced, not fatal
-      }
-    }
-    std::vector<std::string> columns{"iteration", "u_residual", "v_residual", "continuity_residual"};
-    for (const auto& r : model->residuals()) columns.push_back(r.name + "_residual");
-    for (const char* c : {"u_residual_abs", "v_residual_abs", "continuity_residual_abs"})
-      columns.push_back(c);
-    for (const auto& r : model->residuals()) columns.push_back(r.name + "_residual_abs");
-    for (const char* c : {"momentum_linear_its", "pressure_linear_its", "elapsed_s"}) columns.push_back(c);
-    history = std::make_unique<CsvWriter>((dir / "residuals.csv").string(), columns);
-    for (const auto& row : earlier)
-      if (row.size() == columns.size()) history->row(row);
-    if (first_iteration > 0)
-      std::printf("wallrans: restarted from %s at iteration %d\n", restart->c_str(), first_iteration);
-    std::fputs(grid_report.c_str(), stdout);
-    std::printf("wallrans: case '%s', %d x %d cells on %d rank(s), model %s\n", spec.title.c_str(),
-                grid.cells_x(), grid.cells_y(), size, model->name().c_str());
-    std::printf("%8s %12s %12s %12s", "iter", "res_u", "res_v", "res_mass");
-    for (const auto& m : model->residuals()) std::printf(" %12s", ("res_" + m.name).c_str());
-    std::printf(" %8s\n", "time_s");
-  }
-  auto fields = [&](const std::string& basename) {
-    std::vector<NamedScalar> scalars{{"pressure", &solver.pressure()},
-                                     {"eddy_viscosity", &solver.eddy_viscosity()},
-                                     {"solid", &solver.solid()}};
-    for (const auto& [name, field] : model->output_fields()) scalars.push_back({name, field});
-    write_vtk_fields(grid, scalars, {{"velocity", &solver.velocity()}}, dir.string(), basename);
-  };
-
+  agree(comm, failure);
   // A fresh run may start from the solution on coarser grids (iterations.coarse_grids).
-  std::vector<CoarseGridRun> coarse_runs;
   if (first_iteration == 0 && spec.iterations.coarse_grids > 0) {
-    coarse_runs = start_from_coarser_grids(spec, grid, solver, *model, [&](const CoarseGridRun& run) {
+    const auto runs = start_from_coarser_grids(spec, grid, solver, *model, [&](const CoarseGridRun& run) {
       if (rank == 0 && !options.quiet)
         std::printf("wallrans: coarse grid %d x %d: %s after %d iterations (%.1f s)\n", run.cells_x, run.cells_y,
                     run.converged  ? "converged"
                     : run.diverged ? "diverged; the case's grid starts from the uniform field"
                                    : "iteration budget spent; its state is used",
-                    run.iterations,
-                    run.seconds);
+                    run.iterations, run.seconds);
     });
+    // Work in iterations of the case's grid: each coarse grid's iterations weighted by its share
+    // of the cells, plus the iteration on the case's grid that measured the residual references.
+    std::string json = "[";
+    summary.coarse_work = runs.empty() ? 0.0 : 1.0;
+    for (const CoarseGridRun& c : runs) {
+      json += std::string(json.size() > 1 ? ", " : "") + "{\"cells\": [" + std::to_string(c.cells_x) + ", " +
+              std::to_string(c.cells_y) + "], \"iterations\": " + std::to_string(c.iterations) +
+              ", \"converged\": " + (c.converged ? "true" : "false") + "}";
+      summary.coarse_work += double(c.iterations + c.reference_iterations) * c.cells_x * c.cells_y /
+                             (double(grid.cells_x()) * grid.cells_y());
+    }
+    summary.coarse_grids_json = json + "]";
   }
-
-  stop_requested = 0;
-  std::signal(SIGTERM, request_stop);
-  std::signal(SIGINT, request_stop);
-  IterationStatus status;
-  status.iteration = first_iteration;
-  bool converged = false, diverged = false, stopped = false;
-  double elapsed = 0.0, slowest_iteration = 0.0, checkpoint_seconds = 0.0;
-  auto timed_checkpoint = [&]() {
-    const auto t0 = std::chrono::steady_clock::now();
-    checkpoints.write(dir.string(), kill_switch(status.iteration));
-    checkpoint_seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
-  };
-  while (status.iteration < spec.iterations.max) {
-    const double before = elapsed;
-    status = solver.iterate();
-    elapsed = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
-    slowest_iteration = std::max(slowest_iteration, elapsed - before);
-    converged = solver.converged(status);
-    const auto& r = status.normalised;
-    diverged = !std::isfinite(r.u + r.v + r.continuity) || r.u > 1e8 || r.v > 1e8;
+  Run run(comm, options, spec, *model, solver, checkpoints, directory, summary, start);
+  try {
+    return run.execute(first_iteration, signals);
+  } catch (const std::exception& e) {
+    // Every ending leaves a summary: best effort on rank 0 (a rank that fails alone aborts the
+    // run before rank 0 can write one; the summary then still says "running").
     if (rank == 0) {
-      std::vector<double> row{double(status.iteration), r.u, r.v, r.continuity};
-      for (double m : status.model_normalised) row.push_back(m);
-      for (double a : {status.absolute.u, status.absolute.v, status.absolute.continuity}) row.push_back(a);
-      for (const auto& m : status.model_absolute) row.push_back(m.value);
-      for (double a : {double(status.momentum_iterations), double(status.pressure_iterations), elapsed})
-        row.push_back(a);
-      history->row(row);
-      const int every = spec.iterations.report_every;
-      if (!options.quiet && every > 0 &&
-          (status.iteration % every == 0 || status.iteration == 1 || converged || diverged)) {
-        std::printf("%8d %12.4e %12.4e %12.4e", status.iteration, r.u, r.v, r.continuity);
-        for (double m : status.model_normalised) std::printf(" %12.4e", m);
-        std::printf(" %8.1f%s\n", elapsed,
-                    status.linear_solves_converged ? "" : "  (a linear solve broke down)");
-        std::fflush(stdout);
+      directory.remove_temporaries();
+      summary.status = RunStatus::failed;
+      summary.detail = e.what();
+      summary.wall_time_s = std::chrono::duration<double>(Clock::now() - start).count();
+      try {
+        write_summary(directory.path(), summary);
+      } catch (const std::exception&) {
+        // the disk may be full or gone; the error that matters is being reported
       }
     }
-    if (converged || diverged) break;
-    if (spec.output.fields_every > 0 && status.iteration % spec.output.fields_every == 0) {
-      fields("fields_" + std::to_string(status.iteration));
-    }
-    if (spec.checkpoint.every > 0 && status.iteration % spec.checkpoint.every == 0) timed_checkpoint();
-    // Stop early on a signal, or when one more iteration plus a checkpoint (with margin) would
-    // overrun the wall-clock budget; all ranks decide together.
-    int stop = stop_requested ? 1 : 0;
-    if (walltime && elapsed + 2.0 * slowest_iteration + 2.0 * checkpoint_seconds + 1.0 > *walltime) stop = 1;
-    int stop_all = 0;
-    MPI_Allreduce(&stop, &stop_all, 1, MPI_INT, MPI_MAX, comm);
-    if (stop_all) {
-      stopped = true;
-      if (!(spec.checkpoint.every > 0 && status.iteration % spec.checkpoint.every == 0)) timed_checkpoint();
-      if (rank == 0) {
-        std::printf("wallrans: stopped at iteration %d (%s); checkpoint written\n", status.iteration,
-                    stop_requested ? "signal" : "wall-clock budget");
-      }
-      break;
-    }
+    throw;
   }
-  std::signal(SIGTERM, SIG_DFL);
-  std::signal(SIGINT, SIG_DFL);
-  if (diverged) {
-    if (rank == 0)
-      std::printf("wallrans: diverged at iteration %d; fields not written (residuals.csv kept)\n",
-                  status.iteration);
-    return 4;
-  }
-  // A checkpoint at the end of every run that did not diverge, so it can be continued.
-  if (!stopped && !(spec.checkpoint.every > 0 && status.iteration % spec.checkpoint.every == 0))
-    timed_checkpoint();
-  fields("fields");
-  if (spec.output.wall_data) {
-    std::vector<std::vector<double>> rows;
-    for (const auto& w : solver.wall_samples()) {
-      const double yplus =
-          w.first_cell_distance * std::sqrt(std::abs(w.shear_stress)) / spec.flow.kinematic_viscosity;
-      rows.push_back({w.centre.x, w.centre.y, w.cf, w.cp, w.shear_stress, w.first_cell_distance, yplus});
-    }
-    const auto all = gather_rows(comm, rows, 7);
-    if (rank == 0) {
-      CsvWriter wall((dir / "wall.csv").string(),
-                     {"x", "y", "cf", "cp", "wall_shear_stress", "first_cell_distance", "first_cell_y_plus"});
-      for (const auto& row : all) wall.row(row);
-    }
-  }
-  write_profiles(spec, solver, dir, comm);
-  if (rank == 0) {
-    std::ostringstream json;
-    json << "{\n  \"title\": " << json_string(spec.title)
-         << ",\n  \"case_file\": " << json_string(spec.source_file)
-         << ",\n  \"version\": " << json_string(WALLRANS_VERSION) << ",\n  \"ranks\": " << size
-         << ",\n  \"cells\": [" << grid.cells_x() << ", " << grid.cells_y()
-         << "],\n  \"model\": " << json_string(model->name()) << ",\n  \"iterations\": " << status.iteration
-         << ",\n  \"converged\": " << (converged ? "true" : "false")
-         << ",\n  \"stopped_early\": " << (stopped ? "true" : "false")
-         << ",\n  \"coarse_grids\": [";
-    // Work in fine-grid iterations: this run's iterations, plus each coarse grid's iterations
-    // weighted by its share of the cells, plus the reference iteration on this grid.
-    double work = status.iteration - first_iteration + (coarse_runs.empty() ? 0 : 1);
-    for (size_t k = 0; k < coarse_runs.size(); ++k) {
-      const CoarseGridRun& c = coarse_runs[k];
-      json << (k ? ", " : "") << "{\"cells\": [" << c.cells_x << ", " << c.cells_y
-           << "], \"iterations\": " << c.iterations << ", \"converged\": " << (c.converged ? "true" : "false")
-           << ", \"seconds\": " << json_number(c.seconds) << "}";
-      work += double(c.iterations + c.reference_iterations) * c.cells_x * c.cells_y / (double(grid.cells_x()) * grid.cells_y());
-    }
-    json << "],\n  \"work_in_fine_grid_iterations\": " << json_number(work)
-         << ",\n  \"residuals\": {\"u\": " << json_number(status.normalised.u)
-         << ", \"v\": " << json_number(status.normalised.v)
-         << ", \"continuity\": " << json_number(status.normalised.continuity)
-         << "},\n  \"residual_drop\": " << json_number(spec.iterations.residual_drop)
-         << ",\n  \"wall_time_s\": " << json_number(elapsed) << ",\n  \"caution\": " << json_string(caution)
-         << "\n}\n";
-    write_file_atomically(dir / "summary.json", json.str(), "run directory");
-    std::printf("wallrans: %s after %d iterations (%.1f s); results in %s\n",
-                converged ? "converged"
-                : stopped ? "stopped early (restart from the last checkpoint)"
-                          : "NOT converged (iteration cap reached)",
-                status.iteration, elapsed, dir.string().c_str());
-    std::printf("note: %s\n", caution);
-  }
-  if (stopped) return exit_stopped_with_checkpoint;
-  return converged ? 0 : 3;
 }
 
 }  // namespace wallrans

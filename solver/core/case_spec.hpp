@@ -99,7 +99,7 @@ struct IterationSpec {
   /// Nested start: solve first on this many grids made by dropping every other grid line (in
   /// each direction that has an even cell count), coarsest first, each to coarse_residual_drop,
   /// and start each finer grid from the interpolated solution. 0: start on the case's grid.
-  int coarse_grids = 0;
+  int coarse_grids = 2;
   double coarse_residual_drop = 1e-3;
   int coarse_max = 300;  ///< iteration budget of each coarse grid, >= 1
   ConvectionScheme convection = ConvectionScheme::bounded_linear_upwind;
@@ -131,8 +131,11 @@ struct OutputSpec {
 
 /// Checkpoints (parallel HDF5) and stopping within a wall-clock budget.
 struct CheckpointSpec {
-  int every = 0;  ///< write a checkpoint every N iterations (0: only when stopped early)
-  int keep = 2;   ///< newest checkpoints kept in the run directory, >= 1
+  int every = 0;  ///< write a checkpoint every N iterations (0: not by iteration count)
+  /// Also write one when this much wall-clock time [s] has passed since the last one (0: off), so
+  /// a hard kill loses at most about this much work.
+  double every_seconds = 600.0;
+  int keep = 2;  ///< newest checkpoints of this case kept in the run directory, >= 1
   std::optional<std::string> restart_from;  ///< checkpoint file to continue from
   std::optional<double> walltime;           ///< wall-clock budget [s]: checkpoint and stop before it ends
 };

@@ -214,7 +214,7 @@ void FlowSolver::initialised_from_fields() {
   bflux_old_ = bflux_;
   vel_old_ = vel_;
   iteration_ = 0;
-  references_given_ = true;
+  references_until_ = 0.0;
   preconditioner_ready_ = false;
   velocity_gradients_current_ = false;
 }
@@ -312,7 +312,7 @@ IterationStatus FlowSolver::iterate() {
   // (common practice). Continuity: the mean over cells of each cell's mass imbalance relative to
   // U_ref times its half perimeter, so the standard does not tighten as the grid is refined (an
   // L1 sum over cells divided by one U_ref L_ref would); the initial imbalance can be zero.
-  const bool measure_references = iteration_ <= 5 && !references_given_;
+  const bool measure_references = iteration_ <= references_until_;
   if (measure_references) reference_.u = std::max({reference_.u, status.absolute.u, status.absolute.v});
   const double momentum_ref = reference_.u > 0.0 ? reference_.u : 1.0;
   status.normalised = {status.absolute.u / momentum_ref, status.absolute.v / momentum_ref,
@@ -346,7 +346,8 @@ SolverRestartState FlowSolver::restart_state() {
   state.boundary = {{"boundary_flux", &bflux_}};
   for (const BoundaryFace& f : bfaces_) state.boundary_ids.push_back(f.id);
   state.n_boundary_faces = static_cast<int>(boundaries_.faces().size());
-  state.scalars = {{"momentum_residual_reference", &reference_.u}};
+  state.scalars = {{"momentum_residual_reference", &reference_.u},
+                   {"residual_references_until", &references_until_}};
   model_reference_.resize(model_.residuals().size(), 0.0);
   for (size_t k = 0; k < model_reference_.size(); ++k)
     state.scalars.push_back({"model_residual_reference_" + std::to_string(k), &model_reference_[k]});

@@ -179,7 +179,9 @@ class FlowSolver {
   bool velocity_gradients_current_ = false;  // grad_u_, grad_v_ belong to vel_ and u_b_, v_b_
   std::vector<double> continuity_scale_;     // 1 / (U_ref half perimeter) per owned cell, owned order
   double continuity_per_cell_ = 0.0;         // mean relative mass imbalance of the last iteration
-  bool references_given_ = false;            // residual references set by initialised_from_fields()
+  // Residual references are measured up to this iteration (0 after initialised_from_fields());
+  // a double because it is a checkpoint scalar.
+  double references_until_ = 5.0;
 
   VectorField vel_, vel_old_, grad_u_, grad_v_, grad_p_, grad_pc_;
   // Interior-face fluxes: flux_e_(i, j) through the face between (i, j) and (i + 1, j),

@@ -494,10 +494,12 @@ OutputSpec read_output(const Value& value) {
 }
 
 CheckpointSpec read_checkpoint(const Value& value) {
-  const Section section = value.section({"every", "keep", "restart_from", "walltime"});
+  const Section section = value.section({"every", "every_seconds", "keep", "restart_from", "walltime"});
   CheckpointSpec checkpoint;
   checkpoint.every =
       integer_or(section, "every", checkpoint.every, "an integer >= 0", [](int n) { return n >= 0; });
+  checkpoint.every_seconds =
+      number_or(section, "every_seconds", checkpoint.every_seconds, "a number >= 0", is_non_negative);
   checkpoint.keep =
       integer_or(section, "keep", checkpoint.keep, "an integer >= 1", [](int n) { return n >= 1; });
   if (section.has("restart_from")) checkpoint.restart_from = text_or(section, "restart_from", "", false);
@@ -685,6 +687,7 @@ std::string resolved_case_yaml(const CaseSpec& spec) {
 
   out << YAML::Key << "checkpoint" << YAML::Value << YAML::BeginMap;
   put(out, "every", spec.checkpoint.every);
+  put(out, "every_seconds", spec.checkpoint.every_seconds);
   put(out, "keep", spec.checkpoint.keep);
   if (spec.checkpoint.restart_from) put_text(out, "restart_from", *spec.checkpoint.restart_from);
   if (spec.checkpoint.walltime) put(out, "walltime", *spec.checkpoint.walltime);

@@ -9,7 +9,6 @@
 #include <algorithm>
 #include <cerrno>
 #include <csignal>
-#include <ctime>
 #include <filesystem>
 #include <set>
 #include <string>
@@ -17,6 +16,7 @@
 #include <vector>
 
 #include "core/error.hpp"
+#include "core/utc_time.hpp"
 #include "io/checkpoint_format.hpp"
 #include "io/checkpoint_transfer.hpp"
 #include "io/hdf5_attributes.hpp"
@@ -92,15 +92,6 @@ void check_scalars(const std::string& path, const CheckpointMetadata& metadata) 
                   "' must be unique, non-empty and made of letters, digits, '_', '-' and '.'");
     }
   }
-}
-
-std::string utc_now() {
-  const std::time_t now = std::time(nullptr);
-  std::tm parts{};
-  if (gmtime_r(&now, &parts) == nullptr) throw Error("checkpoint: cannot convert the current time to UTC");
-  char text[32];
-  std::strftime(text, sizeof text, "%Y-%m-%dT%H:%M:%SZ", &parts);
-  return text;
 }
 
 void make_parent_directory(const std::string& path) {

@@ -4,6 +4,7 @@
 
 #include <mpi.h>
 
+#include <functional>
 #include <string>
 #include <utility>
 #include <vector>
@@ -105,8 +106,10 @@ void write_checkpoint_xdmf(const std::string& xdmf_path, const std::string& h5_f
                            const CheckpointMetadata& metadata, const std::vector<std::string>& field_names);
 
 /// Local. Keeps the newest `keep` (>= 0) files <directory>/<prefix>_<iteration>.h5 by iteration
-/// number (not by name) and deletes the older ones and their <prefix>_<iteration>.xmf. Other
-/// files, including leftover "*.h5.tmp" files, are left alone. Throws Error on failure.
-void prune_checkpoints(const std::string& directory, const std::string& prefix, int keep);
+/// number (not by name) and deletes the older ones and their <prefix>_<iteration>.xmf. Only files
+/// for which `belongs(path)` is true take part (default: all); other files, including leftover
+/// "*.h5.tmp" files, are left alone. Throws Error on failure.
+void prune_checkpoints(const std::string& directory, const std::string& prefix, int keep,
+                       const std::function<bool(const std::string&)>& belongs = {});
 
 }  // namespace wallrans

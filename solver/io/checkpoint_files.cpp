@@ -9,6 +9,7 @@
 #include <cstdint>
 #include <cstdio>
 #include <filesystem>
+#include <functional>
 #include <memory>
 #include <sstream>
 #include <system_error>
@@ -142,7 +143,8 @@ void write_checkpoint_xdmf(const std::string& xdmf_path, const std::string& h5_f
   write_file_atomically(xdmf_path, out.str(), "checkpoint xdmf");
 }
 
-void prune_checkpoints(const std::string& directory, const std::string& prefix, int keep) {
+void prune_checkpoints(const std::string& directory, const std::string& prefix, int keep,
+                       const std::function<bool(const std::string&)>& belongs) {
   if (keep < 0) throw Error("prune_checkpoints: keep must be >= 0, got " + std::to_string(keep));
   const std::string head = prefix + "_", tail = ".h5";
   std::vector<std::pair<unsigned long long, fs::path>> found;
@@ -157,7 +159,8 @@ void prune_checkpoints(const std::string& directory, const std::string& prefix, 
         std::from_chars(digits.data(), digits.data() + digits.size(), iteration);
     if (status != std::errc() || end_of_number != digits.data() + digits.size()) continue;
     std::error_code ignored;
-    if (entry->is_regular_file(ignored)) found.emplace_back(iteration, entry->path());
+    if (entry->is_regular_file(ignored) && (!belongs || belongs(entry->path().string())))
+      found.emplace_back(iteration, entry->path());
   }
   if (error) throw Error("prune_checkpoints: cannot list '" + directory + "': " + error.message());
   std::sort(found.begin(), found.end(), [](const auto& a, const auto& b) {

@@ -1,13 +1,22 @@
 // Launches the wallrans program through the shell with std::system and reads back what it wrote.
 #include "program_runner.hpp"
 
+#include <fcntl.h>
+#include <signal.h>
+#include <spawn.h>
 #include <sys/wait.h>
+#include <unistd.h>
 
+#include <algorithm>
+#include <chrono>
 #include <cstdlib>
 #include <fstream>
 #include <random>
 #include <sstream>
 #include <stdexcept>
+#include <thread>
+
+extern char** environ;
 
 namespace wallrans::test_support {
 
@@ -81,6 +90,117 @@ ProgramResult run_program_mpi(int ranks, const fs::path& directory, const std::v
                                quoted(WALLRANS_MPIEXEC) + " " + WALLRANS_MPIEXEC_NUMPROC_FLAG + " " +
                                std::to_string(ranks) + " ";
   return run_command(launcher, WALLRANS_PROGRAM, directory, arguments, capture_directory, label);
+}
+
+BackgroundProgram::BackgroundProgram(const std::vector<std::string>& argv, const fs::path& directory,
+                                     const fs::path& capture_directory, const std::string& label,
+                                     const std::vector<std::string>& environment)
+    : out_(capture_directory / (label + ".stdout")), err_(capture_directory / (label + ".stderr")) {
+  fs::create_directories(capture_directory);
+  std::vector<std::string> args = argv, env;
+  for (char** entry = environ; *entry != nullptr; ++entry) env.emplace_back(*entry);
+  env.insert(env.end(), environment.begin(), environment.end());
+  std::vector<char*> arg_pointers, env_pointers;
+  for (auto& a : args) arg_pointers.push_back(a.data());
+  arg_pointers.push_back(nullptr);
+  for (auto& e : env) env_pointers.push_back(e.data());
+  env_pointers.push_back(nullptr);
+  posix_spawn_file_actions_t actions;
+  posix_spawn_file_actions_init(&actions);
+  posix_spawn_file_actions_addopen(&actions, 0, "/dev/null", O_RDONLY, 0);
+  posix_spawn_file_actions_addopen(&actions, 1, out_.c_str(), O_WRONLY | O_CREAT | O_TRUNC, 0644);
+  posix_spawn_file_actions_addopen(&actions, 2, err_.c_str(), O_WRONLY | O_CREAT | O_TRUNC, 0644);
+  posix_spawn_file_actions_addchdir_np(&actions, directory.c_str());
+  pid_t pid = -1;
+  const int error =
+      posix_spawn(&pid, args[0].c_str(), &actions, nullptr, arg_pointers.data(), env_pointers.data());
+  posix_spawn_file_actions_destroy(&actions);
+  if (error != 0) throw std::runtime_error("cannot start " + args[0]);
+  pid_ = pid;
+}
+
+BackgroundProgram::~BackgroundProgram() {
+  if (pid_ <= 0) return;
+  kill(pid_, SIGKILL);
+  int status = 0;
+  waitpid(pid_, &status, 0);
+}
+
+bool BackgroundProgram::signal(int signal) const { return pid_ > 0 && kill(pid_, signal) == 0; }
+
+ProgramResult BackgroundProgram::wait() {
+  ProgramResult result;
+  int status = 0;
+  if (pid_ > 0 && waitpid(pid_, &status, 0) == pid_) {
+    if (WIFEXITED(status)) result.exit_status = WEXITSTATUS(status);
+    if (WIFSIGNALED(status)) terminating_signal_ = WTERMSIG(status);
+    pid_ = -1;
+  }
+  result.out = read_text(out_);
+  result.err = read_text(err_);
+  return result;
+}
+
+std::vector<std::string> mpi_command(int ranks, const std::vector<std::string>& arguments) {
+  std::vector<std::string> argv{WALLRANS_MPIEXEC, WALLRANS_MPIEXEC_NUMPROC_FLAG, std::to_string(ranks),
+                                WALLRANS_PROGRAM};
+  argv.insert(argv.end(), arguments.begin(), arguments.end());
+  return argv;
+}
+
+std::vector<std::string> program_command(const std::vector<std::string>& arguments) {
+  std::vector<std::string> argv{WALLRANS_PROGRAM};
+  argv.insert(argv.end(), arguments.begin(), arguments.end());
+  return argv;
+}
+
+std::vector<int> program_children(int parent) {
+  std::vector<int> children;
+  for (const auto& entry : fs::directory_iterator("/proc")) {
+    const std::string name = entry.path().filename().string();
+    if (name.find_first_not_of("0123456789") != std::string::npos) continue;
+    // /proc/<pid>/stat: "pid (comm) state ppid ..."; comm may contain spaces, so parse after ')'.
+    const std::string stat = read_text(entry.path() / "stat");
+    const auto open = stat.find('('), close = stat.rfind(')');
+    if (open == std::string::npos || close == std::string::npos) continue;
+    std::istringstream rest(stat.substr(close + 1));
+    std::string state;
+    int ppid = 0;
+    rest >> state >> ppid;
+    if (ppid == parent && stat.substr(open + 1, close - open - 1) == "wallrans" && state != "Z")
+      children.push_back(std::stoi(name));
+  }
+  std::sort(children.begin(), children.end());
+  return children;
+}
+
+bool wait_until(const std::function<bool()>& condition, double seconds) {
+  const auto deadline = std::chrono::steady_clock::now() + std::chrono::duration<double>(seconds);
+  while (std::chrono::steady_clock::now() < deadline) {
+    if (condition()) return true;
+    std::this_thread::sleep_for(std::chrono::milliseconds(20));
+  }
+  return condition();
+}
+
+int history_rows(const fs::path& directory) {
+  const auto lines = lines_of(read_text(directory / "residuals.csv"));
+  return lines.empty() ? 0 : static_cast<int>(lines.size()) - 1;
+}
+
+std::string json_field(const fs::path& path, const std::string& key) {
+  const std::string text = read_text(path);
+  const std::string marker = "\"" + key + "\": \"";
+  const auto at = text.find(marker);
+  if (at == std::string::npos) return "";
+  const auto start = at + marker.size();
+  return text.substr(start, text.find('"', start) - start);
+}
+
+std::string this_host() {
+  char name[256] = {};
+  gethostname(name, sizeof name - 1);
+  return name;
 }
 
 std::string read_text(const fs::path& path) {

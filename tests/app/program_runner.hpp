@@ -3,6 +3,7 @@
 #pragma once
 
 #include <filesystem>
+#include <functional>
 #include <map>
 #include <string>
 #include <vector>
@@ -44,6 +45,56 @@ ProgramResult run_program_mpi(int ranks, const std::filesystem::path& directory,
                               const std::vector<std::string>& arguments,
                               const std::filesystem::path& capture_directory, const std::string& label,
                               const std::string& environment = "");
+
+/// A program started in the background with its stdout and stderr captured in files, so a test
+/// can signal it (or its processes) while it runs. Killed (SIGKILL) and reaped on destruction if
+/// it is still running.
+class BackgroundProgram {
+ public:
+  /// Starts `argv` (argv[0] is the executable's path) in `directory`, with `environment`
+  /// ("NAME=value" entries) added to the test's own.
+  BackgroundProgram(const std::vector<std::string>& argv, const std::filesystem::path& directory,
+                    const std::filesystem::path& capture_directory, const std::string& label,
+                    const std::vector<std::string>& environment = {});
+  BackgroundProgram(const BackgroundProgram&) = delete;
+  BackgroundProgram& operator=(const BackgroundProgram&) = delete;
+  ~BackgroundProgram();
+
+  int pid() const { return pid_; }
+  /// Sends `signal` to the process; false if it has already been reaped.
+  bool signal(int signal) const;
+  /// Waits for the process to end and returns its exit status and output (status -1, and the
+  /// signal in `terminating_signal`, if a signal ended it).
+  ProgramResult wait();
+  int terminating_signal() const { return terminating_signal_; }
+
+ private:
+  int pid_ = -1;
+  int terminating_signal_ = 0;
+  std::filesystem::path out_, err_;
+};
+
+/// The argument vector `mpiexec -n ranks <wallrans> arguments...` (the launcher found by CMake).
+std::vector<std::string> mpi_command(int ranks, const std::vector<std::string>& arguments);
+
+/// The argument vector `<wallrans> arguments...`.
+std::vector<std::string> program_command(const std::vector<std::string>& arguments);
+
+/// The process ids of the running `wallrans` processes whose parent is `parent` (the ranks a
+/// launcher started), in increasing order.
+std::vector<int> program_children(int parent);
+
+/// Polls `condition` every 20 ms until it holds or `seconds` have passed; returns whether it held.
+bool wait_until(const std::function<bool()>& condition, double seconds);
+
+/// The number of data rows in <directory>/residuals.csv (0 if it does not exist yet).
+int history_rows(const std::filesystem::path& directory);
+
+/// The value of the string field "key" in a JSON file written by wallrans ("" if absent).
+std::string json_field(const std::filesystem::path& path, const std::string& key);
+
+/// This machine's host name.
+std::string this_host();
 
 /// The whole content of a file; empty if it cannot be read.
 std::string read_text(const std::filesystem::path& path);

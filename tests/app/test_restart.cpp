@@ -2,20 +2,15 @@
 // restarts across rank counts, a kill in the middle of writing, SIGTERM, bad checkpoints.
 #include <gtest/gtest.h>
 #include <signal.h>
-#include <spawn.h>
-#include <sys/wait.h>
-#include <unistd.h>
 #include <vtkCellData.h>
 #include <vtkDataArray.h>
 #include <vtkNew.h>
 #include <vtkStructuredGrid.h>
 #include <vtkXMLPStructuredGridReader.h>
 
-#include <chrono>
 #include <cmath>
 #include <filesystem>
 #include <string>
-#include <thread>
 #include <vector>
 
 #include "io/csv_writer.hpp"
@@ -23,8 +18,6 @@
 
 namespace fs = std::filesystem;
 using namespace wallrans::test_support;
-
-extern char** environ;
 
 namespace {
 
@@ -65,8 +58,9 @@ TEST(Restart, StraightAndRestartedRunsAreBitIdentical) {
   ASSERT_EQ(first.exit_status, 3) << first.err;
   ASSERT_TRUE(
       fs::exists(scratch.path() / "split" / "checkpoint_33.h5"));  // written at the end of a capped run
+  // The cap counts the iterations of this run: 33 more.
   auto second = run_mpi(2, scratch.path(),
-                        {"run", channel_case, "--output-dir", "split", "--max-iterations", "66", "--quiet",
+                        {"run", channel_case, "--output-dir", "split", "--max-iterations", "33", "--quiet",
                          "--restart", "split/checkpoint_33.h5"},
                         "second");
   ASSERT_EQ(second.exit_status, 3) << second.err;
@@ -133,24 +127,13 @@ TEST(Restart, KillDuringCheckpointLeavesThePreviousOneIntact) {
 TEST(Restart, SigtermWritesARestartableCheckpointAndExitsFive) {
   ScratchDirectory scratch("wallrans_restart_sigterm");
   const fs::path out = scratch.path() / "run";
-  std::vector<std::string> args = {WALLRANS_PROGRAM, "run",        channel_case,
-                                   "--output-dir",   out.string(), "--quiet"};
-  std::vector<char*> argv;
-  for (auto& a : args) argv.push_back(a.data());
-  argv.push_back(nullptr);
-  pid_t pid = 0;
-  ASSERT_EQ(posix_spawn(&pid, WALLRANS_PROGRAM, nullptr, nullptr, argv.data(), environ), 0);
+  BackgroundProgram run(program_command({"run", channel_case, "--output-dir", out.string(), "--quiet"}),
+                        scratch.path(), scratch.path() / "logs", "sigterm");
   // Wait until the run is well under way (history rows appear), then send what a scheduler sends.
-  const auto deadline = std::chrono::steady_clock::now() + std::chrono::seconds(60);
-  while (std::chrono::steady_clock::now() < deadline) {
-    if (fs::exists(out / "residuals.csv") && lines_of(read_text(out / "residuals.csv")).size() > 50) break;
-    std::this_thread::sleep_for(std::chrono::milliseconds(20));
-  }
-  ASSERT_EQ(kill(pid, SIGTERM), 0);
-  int status = 0;
-  ASSERT_EQ(waitpid(pid, &status, 0), pid);
-  ASSERT_TRUE(WIFEXITED(status));
-  EXPECT_EQ(WEXITSTATUS(status), 5);  // documented: stopped with a checkpoint
+  ASSERT_TRUE(wait_until([&] { return history_rows(out) > 50; }, 60));
+  ASSERT_TRUE(run.signal(SIGTERM));
+  const auto stopped = run.wait();
+  EXPECT_EQ(stopped.exit_status, 5) << stopped.err;  // documented: stopped with a checkpoint
   int checkpoints = 0;
   std::string newest;
   for (const auto& entry : fs::directory_iterator(out)) {
@@ -161,6 +144,7 @@ TEST(Restart, SigtermWritesARestartableCheckpointAndExitsFive) {
   }
   ASSERT_EQ(checkpoints, 1);
   EXPECT_NE(read_text(out / "summary.json").find("\"stopped_early\": true"), std::string::npos);
+  EXPECT_EQ(json_field(out / "summary.json", "status"), "stopped");
   auto resumed = run_program(
       scratch.path(),
       {"run", channel_case, "--output-dir", "run", "--quiet", "--restart", newest, "--max-iterations", "80"},

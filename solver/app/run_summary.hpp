@@ -1,0 +1,49 @@
+// summary.json: how a run ended, for people and scripts. It is written when the run claims its
+// directory (status "running") and rewritten at every ending, so it never describes an earlier run.
+#pragma once
+
+#include <filesystem>
+#include <limits>
+#include <string>
+
+namespace wallrans {
+
+/// How a run ended (or that it has not yet) and the exit code that goes with it.
+enum class RunStatus { running, converged, capped, diverged, stopped, failed };
+
+/// "running", "converged", "capped" (iteration cap), "diverged", "stopped", "failed".
+const char* to_string(RunStatus status);
+
+/// The process exit code of an ending: 0 converged, 3 capped, 4 diverged, 5 stopped, 1 failed
+/// (running has none: -1).
+int exit_code(RunStatus status);
+
+struct RunSummary {
+  RunStatus status = RunStatus::running;
+  std::string title, case_file, case_id, model;
+  std::string host, started;  ///< rank 0's host and the claim time (UTC)
+  long pid = 0;               ///< rank 0's process id
+  int ranks = 1, cells_x = 0, cells_y = 0;
+  int first_iteration = 0;  ///< iteration restarted from (0: from the start)
+  int iteration = 0;        ///< last iteration done
+  double residual_u = std::numeric_limits<double>::quiet_NaN();
+  double residual_v = std::numeric_limits<double>::quiet_NaN();
+  double residual_continuity = std::numeric_limits<double>::quiet_NaN();
+  double residual_drop = 0.0;
+  double wall_time_s = 0.0;
+  std::string checkpoint;  ///< newest checkpoint written by this run (file name), empty if none
+  /// Nested start: the coarse grids as a JSON array (cells, iterations, converged, seconds), and
+  /// the work of the coarse grids in iterations of the case's grid (iterations x cells share).
+  std::string coarse_grids_json = "[]";
+  double coarse_work = 0.0;
+  std::string detail;      ///< why it stopped, diverged or failed
+};
+
+/// Local. The JSON text of `summary` (non-finite numbers become null).
+std::string summary_json(const RunSummary& summary);
+
+/// Local (rank 0). Replaces <directory>/summary.json atomically; if that fails (a full disk has no
+/// room for the temporary copy) it overwrites the file in place. Throws Error if both fail.
+void write_summary(const std::filesystem::path& directory, const RunSummary& summary);
+
+}  // namespace wallrans
