@@ -25,7 +25,8 @@ constexpr const char* usage =
     "  write-grid CASE.yaml GRID.h5\n"
     "                  write the case's grid with its boundary patches (docs/grid-file.md)\n"
     "  version         print the version\n"
-    "  --max-iterations N   iterations of this run (also after a restart), overrides iterations.max\n"
+    "  --max-iterations N   iterations of this run (also after a restart), overrides iterations.max;\n"
+    "                       0 writes the starting state (e.g. a restart checkpoint) again\n"
     "  --restart FILE.h5    continue from this checkpoint\n"
     "  --resume             continue from this case's newest checkpoint in the run directory, if any\n"
     "  --replace-results    delete another case's results from the run directory before running\n"
@@ -42,11 +43,12 @@ struct Arguments {
   std::string grid_file;  ///< write-grid: the file to write
 };
 
-int parse_int(const std::string& flag, const char* text) {
+int parse_int(const std::string& flag, const char* text, int minimum = 1) {
   char* end = nullptr;
   const long value = std::strtol(text, &end, 10);
-  if (*text == '\0' || *end != '\0' || value < 1 || value > 1000000000) {
-    throw wallrans::InputError("command line: " + flag + ": expected a positive integer, got '" + text + "'");
+  if (*text == '\0' || *end != '\0' || value < minimum || value > 1000000000) {
+    throw wallrans::InputError("command line: " + flag + ": expected an integer >= " + std::to_string(minimum) +
+                               ", got '" + text + "'");
   }
   return static_cast<int>(value);
 }
@@ -71,7 +73,7 @@ Arguments parse(int argc, char** argv) {
       if (arg == "--output-dir")
         a.run.output_directory = value();
       else if (arg == "--max-iterations")
-        a.run.max_iterations = parse_int(arg, value());
+        a.run.max_iterations = parse_int(arg, value(), 0);  // 0: write the starting state again
       else if (arg == "--quiet")
         a.run.quiet = true;
       else if (arg == "--restart")

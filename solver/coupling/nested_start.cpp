@@ -221,7 +221,7 @@ std::vector<CoarseGridRun> start_from_coarser_grids(const CaseSpec& spec, const 
     // A coarse grid only has to carry the start-up transient: it gets a budget of iterations
     // (coarse grids of a stiff case may end in a limit cycle above the drop), and its state is
     // used once the budget is spent as long as it is finite.
-    const int budget = std::min(spec.iterations.max, spec.iterations.coarse_max);
+    const int budget = spec.iterations.coarse_max;  // not iterations.max: a run split by restarts starts alike
     while (run.iterations < budget) {
       const IterationStatus status = level.solver->iterate();
       run.iterations = status.iteration;

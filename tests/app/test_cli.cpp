@@ -257,7 +257,7 @@ INSTANTIATE_TEST_SUITE_P(
         BadCommandLine{"non_numeric_iterations",
                        {"run", "good.yaml", "--max-iterations", "abc"},
                        {"--max-iterations", "'abc'"}},
-        BadCommandLine{"zero_iterations", {"run", "good.yaml", "--max-iterations", "0"}, {"'0'"}},
+        BadCommandLine{"negative_iterations", {"run", "good.yaml", "--max-iterations", "-1"}, {"'-1'"}},
         BadCommandLine{"option_without_value", {"run", "good.yaml", "--output-dir"}, {"--output-dir"}},
         BadCommandLine{"no_command", {}, {"command"}},
         BadCommandLine{"unknown_command", {"frobnicate", "good.yaml"}, {"'frobnicate'"}},
