@@ -20,7 +20,8 @@ BbDamping bb_damping(double yplus) {
 
 BaldwinBarth::BaldwinBarth(const CaseSpec& spec, const Grid& grid, const BoundaryMap& boundaries)
     : WallBoundedModel(spec, grid, boundaries),
-      transport_(grid, boundaries, spec.turbulence.convection, "turbulence_"),
+      transport_(grid, boundaries, spec.turbulence.convection, "turbulence_",
+                 {spec.iterations.petsc_options, spec.source_file}),
       r_(grid, spec.turbulence.freestream_viscosity_ratio * spec.flow.kinematic_viscosity),
       gamma_(grid),
       su_(grid),

@@ -25,7 +25,8 @@ KClosure k_closure(double k, double d, double nu, double strain, bool structure)
 
 KEquation::KEquation(const CaseSpec& spec, const Grid& grid, const BoundaryMap& boundaries)
     : WallBoundedModel(spec, grid, boundaries),
-      transport_(grid, boundaries, spec.turbulence.convection, "turbulence_"),
+      transport_(grid, boundaries, spec.turbulence.convection, "turbulence_",
+                 {spec.iterations.petsc_options, spec.source_file}),
       k_(grid),
       gamma_(grid),
       su_(grid),

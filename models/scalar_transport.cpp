@@ -14,8 +14,14 @@
 
 namespace wallrans {
 
+std::vector<std::pair<std::string, std::string>> ScalarTransport::default_options(const std::string& prefix) {
+  return {{"-" + prefix + "ksp_type", "bcgs"},
+          {"-" + prefix + "ksp_rtol", "1e-3"},
+          {"-" + prefix + "ksp_max_it", "200"}};
+}
+
 ScalarTransport::ScalarTransport(const Grid& grid, const BoundaryMap& boundaries, ConvectionScheme scheme,
-                                 const std::string& prefix)
+                                 const std::string& prefix, const CaseOptionsText& options)
     : grid_(grid),
       scheme_(scheme),
       faces_(owned_boundary_faces(grid, boundaries.faces())),
@@ -31,13 +37,12 @@ ScalarTransport::ScalarTransport(const Grid& grid, const BoundaryMap& boundaries
       grid, faces_, [](const BoundaryFace&) { return true; }, solid_);
   check_petsc(DMCreateGlobalVector(grid.dm(), rhs_.out()));
   check_petsc(DMCreateGlobalVector(grid.dm(), solution_.out()));
+  options_ = std::make_unique<SolverOptions>(options, default_options(prefix));
   check_petsc(KSPCreate(grid.comm(), ksp_.out()));
   check_petsc(KSPSetOptionsPrefix(ksp_.get(), prefix.c_str()));
-  check_petsc(KSPSetType(ksp_.get(), KSPBCGS));
-  check_petsc(KSPSetTolerances(ksp_.get(), 1e-3, PETSC_DEFAULT, PETSC_DEFAULT, 200));
   check_petsc(KSPSetInitialGuessNonzero(ksp_.get(), PETSC_TRUE));
   check_petsc(KSPConvergedDefaultSetUIRNorm(ksp_.get()));
-  check_petsc(KSPSetFromOptions(ksp_.get()));
+  options_->use("turbulence-model solver", [this] { return KSPSetFromOptions(ksp_.get()); });
 }
 
 void ScalarTransport::boundary_values(const MeanFlowView& flow, const Field& phi, double wall_value,
@@ -197,7 +202,8 @@ double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
     for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) x[j][i] = phi(i, j);
   check_petsc(DMDAVecRestoreArray(grid_.dm(), solution_.get(), &x));
   check_petsc(KSPSetOperators(ksp_.get(), matrix_.mat(), matrix_.mat()));
-  check_petsc(KSPSolve(ksp_.get(), rhs_.get(), solution_.get()));
+  options_->use("turbulence-model solver",
+                [this] { return KSPSolve(ksp_.get(), rhs_.get(), solution_.get()); });
   KSPConvergedReason reason;
   check_petsc(KSPGetConvergedReason(ksp_.get(), &reason));
   linear_solve_converged_ = reason >= 0 || reason == KSP_DIVERGED_ITS;

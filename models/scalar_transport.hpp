@@ -31,9 +31,15 @@ struct ScalarEquation {
 
 class ScalarTransport {
  public:
-  /// Collective. `prefix` is the PETSc options prefix of the linear solver (e.g. "turbulence_").
+  /// Collective. `prefix` is the PETSc options prefix of the linear solver (e.g. "turbulence_");
+  /// its options come from a database of its own: the command line, then `options` (the case
+  /// file's), which win.
   ScalarTransport(const Grid& grid, const BoundaryMap& boundaries, ConvectionScheme scheme,
-                  const std::string& prefix);
+                  const std::string& prefix, const CaseOptionsText& options);
+
+  /// The defaults of the linear solver with options prefix `prefix` (BiCGStab, relative tolerance
+  /// 1e-3, at most 200 iterations), which the command line and the case file override.
+  static std::vector<std::pair<std::string, std::string>> default_options(const std::string& prefix);
 
   /// Collective: one implicit relaxed step. Returns the L1 norm of the unrelaxed residual before
   /// the step (in the equation's units times volume) over the fluid cells. Solid cells get phi = 0
@@ -43,6 +49,9 @@ class ScalarTransport {
   /// Whether the linear solve of the last step converged (KSP converged reason checked; hitting
   /// the iteration cap is tolerated, a breakdown is not).
   bool linear_solve_converged() const { return linear_solve_converged_; }
+
+  /// The PETSc options database of the linear solver.
+  const SolverOptions& solver_options() const { return *options_; }
 
   /// Least-squares gradient of the last solved phi (owned and ghost cells, before the step).
   const VectorField& gradient() const { return grad_; }
@@ -73,6 +82,7 @@ class ScalarTransport {
   std::vector<FaceTerms> terms_e_, terms_n_;  // every interior face of an owned cell, like the fluxes
   StencilMatrix matrix_;
   OwnedVec rhs_, solution_;
+  std::unique_ptr<SolverOptions> options_;  // declared before the solver that reads it
   OwnedKsp ksp_;
   bool linear_solve_converged_ = true;
 };

@@ -80,7 +80,8 @@ SaSource sa_source(double nu_tilde, double nu, double d, double omega, double gr
 
 SpalartAllmaras::SpalartAllmaras(const CaseSpec& spec, const Grid& grid, const BoundaryMap& boundaries)
     : WallBoundedModel(spec, grid, boundaries),
-      transport_(grid, boundaries, spec.turbulence.convection, "turbulence_"),
+      transport_(grid, boundaries, spec.turbulence.convection, "turbulence_",
+                 {spec.iterations.petsc_options, spec.source_file}),
       nu_tilde_(grid, spec.turbulence.freestream_viscosity_ratio * spec.flow.kinematic_viscosity),
       gamma_(grid),
       su_(grid),

@@ -12,6 +12,7 @@
 #include "grid/boundary.hpp"
 #include "grid/boundary_faces.hpp"
 #include "grid/grid.hpp"
+#include "linear/solver_options.hpp"
 
 namespace wallrans {
 
@@ -51,6 +52,9 @@ class TurbulenceModel {
   /// Every cell field the model needs to continue bit-identically after a restart (its
   /// variables, the eddy viscosity and any lagged state), named for the checkpoint; borrowed.
   virtual std::vector<std::pair<std::string, Field*>> restart_state() { return {}; }
+  /// The PETSc options database of the model's linear solver (null if it has none), so that
+  /// options nobody used can be reported.
+  virtual const SolverOptions* solver_options() const { return nullptr; }
   /// Cell fields worth writing (model variable, wall distance, y+), borrowed.
   virtual std::vector<std::pair<std::string, const Field*>> output_fields() const { return {}; }
 };

@@ -4,6 +4,16 @@
 
 namespace wallrans {
 
+void require_wall(const CaseSpec& spec, const BoundaryMap& boundaries) {
+  if (!boundaries.has_wall()) {
+    const std::string where = spec.source_file.empty() ? std::string("case") : spec.source_file;
+    throw InputError(where + ":" + std::to_string(spec.turbulence.line) +
+                     ": key 'turbulence.model': expected a "
+                     "grid with at least one no-slip wall for model '" +
+                     spec.turbulence.model + "', got none");
+  }
+}
+
 WallBoundedModel::WallBoundedModel(const CaseSpec& spec, const Grid& grid, const BoundaryMap& boundaries)
     : spec_(spec),
       grid_(grid),
@@ -12,13 +22,7 @@ WallBoundedModel::WallBoundedModel(const CaseSpec& spec, const Grid& grid, const
       walls_(compute_wall_distance(grid, collect_wall_faces(boundaries))),
       yplus_(grid),
       nut_(grid) {
-  if (!boundaries.has_wall()) {
-    const std::string where = spec.source_file.empty() ? std::string("case") : spec.source_file;
-    throw InputError(where + ":" + std::to_string(spec.turbulence.line) +
-                     ": key 'turbulence.model': expected a "
-                     "grid with at least one no-slip wall for model '" +
-                     spec.turbulence.model + "', got none");
-  }
+  require_wall(spec, boundaries);
 }
 
 void WallBoundedModel::update_yplus(const MeanFlowView& flow) {

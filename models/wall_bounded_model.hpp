@@ -24,6 +24,10 @@ inline FlowInvariants invariants(Vec2 grad_u, Vec2 grad_v) {
           std::sqrt(2.0 * grad_u.x * grad_u.x + 2.0 * grad_v.y * grad_v.y + shear * shear)};
 }
 
+/// Local. Throws InputError naming the case file and key 'turbulence.model' if the grid has no
+/// no-slip wall (every closure of this kind needs one).
+void require_wall(const CaseSpec& spec, const BoundaryMap& boundaries);
+
 class WallBoundedModel : public TurbulenceModel {
  public:
   /// Collective. Throws InputError naming the case file if the grid has no no-slip wall.

@@ -14,10 +14,15 @@
 
 #include "app/case_identity.hpp"
 #include "app/checkpointing.hpp"
+#include "app/divergence.hpp"
+#include "app/petsc_option_checks.hpp"
 #include "app/profiles.hpp"
+#include "app/resource_guard.hpp"
 #include "app/run_directory.hpp"
 #include "app/run_summary.hpp"
 #include "app/stop_signals.hpp"
+#include "app/wall_resolution.hpp"
+#include "app/well_posedness.hpp"
 #include "core/atomic_file.hpp"
 #include "core/error.hpp"
 #include "core/utc_time.hpp"
@@ -25,7 +30,9 @@
 #include "coupling/nested_start.hpp"
 #include "grid/boundary.hpp"
 #include "grid/grid_quality.hpp"
+#include "grid/solid_cells.hpp"
 #include "io/case_loader.hpp"
+#include "io/checkpoint.hpp"
 #include "io/csv_writer.hpp"
 #include "io/gather.hpp"
 #include "io/grid_file.hpp"
@@ -61,21 +68,33 @@ struct Setup {
   RunDirectoryRequest directory;
   DirectoryContent content = DirectoryContent::empty;
   std::optional<std::string> restart;
+  MemoryVerdict memory;                     ///< the memory estimate and the tightest host
+  std::vector<std::string> unused_options;  ///< PETSc options the solvers' trial set-up did not read
 };
 
-// Collective. Loads the case and builds its grid and boundary map. Messages of the generators
-// and the boundary map get the case file name.
-Setup build(MPI_Comm comm, const std::string& case_file) {
+// Collective. Loads the case and builds its grid and boundary map, after the checks that need
+// neither (PETSc options, cell count, memory for `use`). Messages of the generators and the
+// boundary map get the case file name.
+Setup build(MPI_Comm comm, const std::string& case_file, MemoryUse use) {
   Setup s;
   s.spec = load_case_file(case_file);
+  check_grid_options(s.spec);
+  if (use == MemoryUse::run) s.unused_options = probe_solver_options(comm, s.spec);
+  const std::string grid_key = case_location(s.spec, s.spec.grid.line) + ": key 'grid.";
   try {
     if (s.spec.grid.file.empty()) {
+      check_cell_count(s.spec, s.spec.grid.cells_x, s.spec.grid.cells_y);
+      s.memory =
+          check_memory(comm, s.spec, s.spec.grid.cells_x, s.spec.grid.cells_y, use, grid_key + "cells'");
       NodeCoordinates nodes = generate_nodes(s.spec.grid);
       s.grid = std::make_unique<Grid>(comm, std::move(nodes), s.spec.periodic.axis == PeriodicAxis::x);
       s.boundaries = std::make_unique<BoundaryMap>(s.spec, s.grid->nodes());
     } else {
       // Segments on a file grid are resolved against its patches (and its orientation).
       CaseGrid loaded = load_case_grid(comm, s.spec);
+      check_cell_count(s.spec, loaded.nodes.cells_x, loaded.nodes.cells_y);
+      s.memory =
+          check_memory(comm, s.spec, loaded.nodes.cells_x, loaded.nodes.cells_y, use, grid_key + "file'");
       s.grid_note = loaded.note;
       s.grid = std::make_unique<Grid>(comm, std::move(loaded.nodes), s.spec.periodic.axis == PeriodicAxis::x);
       CaseSpec resolved = s.spec;
@@ -89,12 +108,13 @@ Setup build(MPI_Comm comm, const std::string& case_file) {
     if (text.rfind(case_file, 0) == 0) throw;
     throw InputError(case_file + ":" + std::to_string(s.spec.grid.line) + ": " + text);
   }
+  if (use == MemoryUse::run) check_flux_balance(s.spec, *s.boundaries);
   return s;
 }
 
 // Collective. build(), then judges the run directory and the restart checkpoint.
 Setup prepare(MPI_Comm comm, const RunOptions& options) {
-  Setup s = build(comm, options.case_file);
+  Setup s = build(comm, options.case_file, MemoryUse::run);
   CaseSpec& spec = s.spec;
   if (options.output_directory) spec.output.directory = *options.output_directory;
   if (options.max_iterations) spec.iterations.max = *options.max_iterations;
@@ -173,7 +193,8 @@ class Run {
         dir_(directory.path()),
         summary_(summary),
         start_(start),
-        rank_(rank_of(comm)) {}
+        rank_(rank_of(comm)),
+        watch_(solver, model) {}
 
   int execute(int first_iteration, const StopSignals& signals);
 
@@ -183,6 +204,8 @@ class Run {
   void record(const IterationStatus& status, bool converged, bool diverged);
   void write_outputs();
   void finish(RunStatus status, const std::string& detail);
+  void warn(const std::string& text);
+  void check_wall_resolution();
 
   MPI_Comm comm_;
   const RunOptions& options_;
@@ -198,7 +221,28 @@ class Run {
   IterationStatus status_;
   int checkpoint_iteration_ = -1;
   double checkpoint_time_ = 0.0, checkpoint_seconds_ = 0.0;
+  DivergenceWatch watch_;
 };
+
+// A warning goes to the terminal (rank 0) and into the summary.
+void Run::warn(const std::string& text) {
+  summary_.warnings.push_back(text);
+  if (rank_ == 0) {
+    std::printf("wallrans: warning: %s\n", text.c_str());
+    std::fflush(stdout);
+  }
+}
+
+// Closures that integrate to the wall need the first cell centre at y+ <= 1.
+void Run::check_wall_resolution() {
+  if (!needs_wall_resolution(spec_.turbulence.model)) return;
+  const auto worst = worst_wall_resolution(comm_, solver_, spec_.flow.kinematic_viscosity);
+  if (!worst) return;
+  summary_.max_first_cell_y_plus = worst->y_plus;
+  summary_.max_y_plus_x = worst->at.x;
+  summary_.max_y_plus_y = worst->at.y;
+  if (worst->y_plus > wall_y_plus_limit) warn(wall_resolution_warning(*worst, spec_.turbulence.model));
+}
 
 void Run::checkpoint() {
   const double before = elapsed();
@@ -238,6 +282,7 @@ int Run::execute(int first_iteration, const StopSignals& signals) {
     std::printf(" %8s\n", "time_s");
   }
   status_.iteration = first_iteration;
+  watch_.keep(first_iteration);  // the start (restart or initial fields) is the first good state
   checkpoint_time_ = elapsed();
   const int last = first_iteration + spec_.iterations.max;  // the cap counts this run's iterations
   const std::optional<double> walltime = options_.walltime ? options_.walltime : spec_.checkpoint.walltime;
@@ -251,9 +296,14 @@ int Run::execute(int first_iteration, const StopSignals& signals) {
     summary_.iteration = status_.iteration;
     slowest_iteration = std::max(slowest_iteration, elapsed() - before);
     converged = solver_.converged(status_);
-    const auto& r = status_.normalised;
-    diverged = !std::isfinite(r.u + r.v + r.continuity) || r.u > 1e8 || r.v > 1e8;
+    diverged = is_diverged(status_);
     record(status_, converged, diverged);
+    if (!diverged) watch_.keep(status_.iteration);
+    // Every solver has read its options in its first set-up.
+    if (status_.iteration == first_iteration + 1) {
+      const std::vector<std::string> unused = solver_.unused_options();
+      if (!unused.empty()) warn(unused_options_warning(unused));
+    }
     if (converged || diverged) break;
     if (spec_.output.fields_every > 0 && status_.iteration % spec_.output.fields_every == 0) {
       std::vector<NamedScalar> scalars{{"pressure", &solver_.pressure()},
@@ -282,9 +332,12 @@ int Run::execute(int first_iteration, const StopSignals& signals) {
   summary_.residual_v = status_.normalised.v;
   summary_.residual_continuity = status_.normalised.continuity;
   if (diverged) {
-    // The last checkpoint stays; no fields, so nothing on disk looks like a result.
-    finish(RunStatus::diverged, "residuals became non-finite or exceeded 1e8 at iteration " +
-                                    std::to_string(status_.iteration) + "; fields not written");
+    // The last checkpoint stays; no fields, so nothing on disk looks like a result. The fields of
+    // the last good iteration go to a file of their own.
+    std::string file;
+    const std::string detail = watch_.diagnose(status_, spec_, dir_, file);
+    summary_.diagnostic_file = file;
+    finish(RunStatus::diverged, detail + "; fields not written");
     return exit_code(RunStatus::diverged);
   }
   // A checkpoint at the end of every run that did not diverge, so it can be continued.
@@ -294,6 +347,7 @@ int Run::execute(int first_iteration, const StopSignals& signals) {
                 stop_reason.c_str());
   }
   write_outputs();
+  check_wall_resolution();
   const RunStatus status = converged              ? RunStatus::converged
                            : !stop_reason.empty() ? RunStatus::stopped
                                                   : RunStatus::capped;
@@ -358,7 +412,8 @@ void Run::finish(RunStatus status, const std::string& detail) {
 
 int check_case(MPI_Comm comm, const RunOptions& options) {
   Setup s = prepare(comm, options);
-  (void)make_turbulence_model(s.spec, *s.grid, *s.boundaries);
+  check_turbulence_model(s.spec, *s.boundaries);  // the model's checks, without allocating it
+  if (s.restart) verify_checkpoint_data(comm, *s.restart);
   const GridQuality q = measure_quality(*s.grid, *s.boundaries);
   int size = 1;
   MPI_Comm_size(comm, &size);
@@ -379,12 +434,22 @@ int check_case(MPI_Comm comm, const RunOptions& options) {
                               : "holds other results (--replace-results)";
     std::printf("  run directory: %s (%s); %s\n", s.directory.path.c_str(), content,
                 s.restart ? ("restarts from " + *s.restart).c_str() : "starts from iteration 0");
+    const MemoryVerdict& m = s.memory;
+    std::printf(
+        "  memory (estimate): about %s per rank (%.0f B per cell); host %s: %d rank(s) need %s more, %s "
+        "available (%s)\n",
+        format_bytes(m.estimate.bytes_per_rank).c_str(), m.estimate.bytes_per_cell, m.host.c_str(),
+        m.ranks_on_host, format_bytes(m.needed_bytes).c_str(), format_bytes(m.available_bytes).c_str(),
+        m.limit.c_str());
+    std::fputs(first_cell_estimate(s.spec, *s.boundaries, s.grid->nodes()).c_str(), stdout);
+    if (!s.unused_options.empty())
+      std::printf("  warning: %s\n", unused_options_warning(s.unused_options).c_str());
   }
   return 0;
 }
 
 int write_case_grid(MPI_Comm comm, const std::string& case_file, const std::string& grid_file) {
-  const Setup s = build(comm, case_file);
+  const Setup s = build(comm, case_file, MemoryUse::grid_only);
   const GridFileContent content{s.grid->nodes(), case_patches(*s.boundaries)};
   write_grid_file(comm, grid_file, content);
   if (rank_of(comm) == 0) {
@@ -445,7 +510,8 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
   if (first_iteration == 0 && spec.iterations.coarse_grids > 0) {
     const auto runs = start_from_coarser_grids(spec, grid, solver, *model, [&](const CoarseGridRun& run) {
       if (rank == 0 && !options.quiet)
-        std::printf("wallrans: coarse grid %d x %d: %s after %d iterations (%.1f s)\n", run.cells_x, run.cells_y,
+        std::printf("wallrans: coarse grid %d x %d: %s after %d iterations (%.1f s)\n", run.cells_x,
+                    run.cells_y,
                     run.converged  ? "converged"
                     : run.diverged ? "diverged; the case's grid starts from the uniform field"
                                    : "iteration budget spent; its state is used",

@@ -60,7 +60,8 @@ std::optional<OutputFile> classify(std::string name) {
     return file;
   }
   if (name == "fields.pvts" || number_between(name, "fields_", ".vts") >= 0 || name == "wall.csv" ||
-      name == "summary.json" || number_between(name, "profile_", ".csv") >= 0) {
+      name == "summary.json" || number_between(name, "profile_", ".csv") >= 0 ||
+      name == "diverged_fields.pvts" || number_between(name, "diverged_fields_", ".vts") >= 0) {
     file.kind = FileKind::fields;
     file.iteration = -1;
     return file;

@@ -34,6 +34,12 @@ std::string json_string(const std::string& s) {
   return out + "\"";
 }
 
+std::string json_strings(const std::vector<std::string>& list) {
+  std::string out = "[";
+  for (const std::string& item : list) out += (out.size() > 1 ? ", " : "") + json_string(item);
+  return out + "]";
+}
+
 }  // namespace
 
 const char* to_string(RunStatus status) {
@@ -87,13 +93,17 @@ std::string summary_json(const RunSummary& s) {
        << ",\n  \"converged\": " << (s.status == RunStatus::converged ? "true" : "false")
        << ",\n  \"stopped_early\": " << (s.status == RunStatus::stopped ? "true" : "false")
        << ",\n  \"checkpoint\": " << json_string(s.checkpoint)
-       << ",\n  \"coarse_grids\": " << s.coarse_grids_json
-       << ",\n  \"work_in_fine_grid_iterations\": " << json_number(s.iteration - s.first_iteration + s.coarse_work)
+       << ",\n  \"coarse_grids\": " << s.coarse_grids_json << ",\n  \"work_in_fine_grid_iterations\": "
+       << json_number(s.iteration - s.first_iteration + s.coarse_work)
        << ",\n  \"residuals\": {\"u\": " << json_number(s.residual_u)
        << ", \"v\": " << json_number(s.residual_v)
        << ", \"continuity\": " << json_number(s.residual_continuity)
        << "},\n  \"residual_drop\": " << json_number(s.residual_drop)
        << ",\n  \"wall_time_s\": " << json_number(s.wall_time_s)
+       << ",\n  \"warnings\": " << json_strings(s.warnings)
+       << ",\n  \"diagnostic_file\": " << json_string(s.diagnostic_file)
+       << ",\n  \"wall_resolution\": {\"max_first_cell_y_plus\": " << json_number(s.max_first_cell_y_plus)
+       << ", \"at\": [" << json_number(s.max_y_plus_x) << ", " << json_number(s.max_y_plus_y) << "]}"
        << ",\n  \"caution\": " << json_string(caution) << "\n}\n";
   return json.str();
 }

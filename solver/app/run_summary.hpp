@@ -5,6 +5,7 @@
 #include <filesystem>
 #include <limits>
 #include <string>
+#include <vector>
 
 namespace wallrans {
 
@@ -36,7 +37,13 @@ struct RunSummary {
   /// the work of the coarse grids in iterations of the case's grid (iterations x cells share).
   std::string coarse_grids_json = "[]";
   double coarse_work = 0.0;
-  std::string detail;      ///< why it stopped, diverged or failed
+  std::string detail;                 ///< why it stopped, diverged or failed
+  std::vector<std::string> warnings;  ///< e.g. PETSc options nobody used, first-cell y+ above 1
+  std::string diagnostic_file;        ///< diverged: the file with the fields of the last good iteration
+  /// Closures that integrate to the wall: the largest first-cell y+ and its wall-face centre.
+  double max_first_cell_y_plus = std::numeric_limits<double>::quiet_NaN();
+  double max_y_plus_x = std::numeric_limits<double>::quiet_NaN();
+  double max_y_plus_y = std::numeric_limits<double>::quiet_NaN();
 };
 
 /// Local. The JSON text of `summary` (non-finite numbers become null).

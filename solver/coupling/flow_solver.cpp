@@ -15,13 +15,29 @@ namespace wallrans {
 
 namespace {
 
-void set_default_option(const char* name, const char* value) {
-  PetscBool set = PETSC_FALSE;
-  check_petsc(PetscOptionsHasName(nullptr, nullptr, name, &set));
-  if (!set) check_petsc(PetscOptionsSetValue(nullptr, name, value));
-}
+// Defaults of the momentum and pressure solvers; options with the prefixes -momentum_ and
+// -pressure_ on the command line or in the case file override them. Algebraic multigrid
+// (BoomerAMG) with a symmetric smoother, so CG applies. It rebuilds its hierarchy from each new
+// matrix with no state carried over, which keeps restarted runs bit-identical to uninterrupted
+// ones (GAMG reuses its interpolation between set-ups by default, so a restarted run would differ
+// in the last bits); it is also as fast here.
+const std::vector<std::pair<std::string, std::string>> solver_defaults{
+    {"-momentum_ksp_type", "bcgs"},
+    {"-momentum_pc_type", "bjacobi"},
+    {"-momentum_ksp_rtol", "1e-2"},
+    {"-momentum_ksp_max_it", "200"},
+    {"-pressure_ksp_type", "cg"},
+    {"-pressure_pc_type", "hypre"},
+    {"-pressure_pc_hypre_type", "boomeramg"},
+    {"-pressure_pc_hypre_boomeramg_relax_type_all", "symmetric-SOR/Jacobi"},
+    {"-pressure_ksp_rtol", "1e-2"},
+    {"-pressure_ksp_max_it", "500"}};
 
 }  // namespace
+
+const std::vector<std::pair<std::string, std::string>>& FlowSolver::default_options() {
+  return solver_defaults;
+}
 
 FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap& boundaries,
                        TurbulenceModel& model)
@@ -100,24 +116,10 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
   bflux_old_ = bflux_;
   vel_old_ = vel_;
 
-  // Linear solvers; defaults can be overridden by PETSc options with the equation's prefix.
-  if (!spec.iterations.petsc_options.empty()) {
-    check_petsc(PetscOptionsInsertString(nullptr, spec.iterations.petsc_options.c_str()));
-  }
-  set_default_option("-momentum_ksp_type", "bcgs");
-  set_default_option("-momentum_pc_type", "bjacobi");
-  set_default_option("-momentum_ksp_rtol", "1e-2");
-  set_default_option("-momentum_ksp_max_it", "200");
-  set_default_option("-pressure_ksp_type", "cg");
-  // Algebraic multigrid (BoomerAMG) with a symmetric smoother, so CG applies. It rebuilds its
-  // hierarchy from each new matrix with no state carried over, which keeps restarted runs
-  // bit-identical to uninterrupted ones (GAMG reuses its interpolation between set-ups by
-  // default, so a restarted run would differ in the last bits); it is also as fast here.
-  set_default_option("-pressure_pc_type", "hypre");
-  set_default_option("-pressure_pc_hypre_type", "boomeramg");
-  set_default_option("-pressure_pc_hypre_boomeramg_relax_type_all", "symmetric-SOR/Jacobi");
-  set_default_option("-pressure_ksp_rtol", "1e-2");
-  set_default_option("-pressure_ksp_max_it", "500");
+  // Linear solvers, configured from a database of their own (defaults, command line, then the
+  // case file), so a second solver in the process does not see this case's options.
+  options_ = std::make_unique<SolverOptions>(CaseOptionsText{spec.iterations.petsc_options, spec.source_file},
+                                             solver_defaults);
   check_petsc(DMCreateGlobalVector(grid.dm(), b_vec_.out()));
   check_petsc(DMCreateGlobalVector(grid.dm(), x_vec_.out()));
   check_petsc(KSPCreate(grid.comm(), ksp_mom_.out()));
@@ -126,10 +128,10 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
   // Relative tolerance measured against the initial residual, not the right-hand side: the
   // relaxation term makes |b| large, and an rtol on |b| would accept a stale initial guess.
   check_petsc(KSPConvergedDefaultSetUIRNorm(ksp_mom_.get()));
-  check_petsc(KSPSetFromOptions(ksp_mom_.get()));
+  options_->use("momentum solver", [this] { return KSPSetFromOptions(ksp_mom_.get()); });
   check_petsc(KSPCreate(grid.comm(), ksp_pc_.out()));
   check_petsc(KSPSetOptionsPrefix(ksp_pc_.get(), "pressure_"));
-  check_petsc(KSPSetFromOptions(ksp_pc_.get()));
+  options_->use("pressure solver", [this] { return KSPSetFromOptions(ksp_pc_.get()); });
   if (!has_pressure_boundary_) {
     // Closed or periodic domain: p' is defined up to a constant in the fluid (NUMERICS: constant
     // null space). Solid cells have identity rows, so with them the null vector is the
@@ -200,11 +202,15 @@ void FlowSolver::initialised_from_fields() {
       grid_,
       [&](int i, int j) {
         const FaceGeometry& f = grid_.east_face(i, j);
-        flux_e_(i, j) = is_closed(grid_.local(i, j), grid_.local(i + 1, j)) ? 0.0 : dot(f.wl * vel_(i, j) + (1.0 - f.wl) * vel_(i + 1, j), f.area);
+        flux_e_(i, j) = is_closed(grid_.local(i, j), grid_.local(i + 1, j))
+                            ? 0.0
+                            : dot(f.wl * vel_(i, j) + (1.0 - f.wl) * vel_(i + 1, j), f.area);
       },
       [&](int i, int j) {
         const FaceGeometry& f = grid_.north_face(i, j);
-        flux_n_(i, j) = is_closed(grid_.local(i, j), grid_.local(i, j + 1)) ? 0.0 : dot(f.wl * vel_(i, j) + (1.0 - f.wl) * vel_(i, j + 1), f.area);
+        flux_n_(i, j) = is_closed(grid_.local(i, j), grid_.local(i, j + 1))
+                            ? 0.0
+                            : dot(f.wl * vel_(i, j) + (1.0 - f.wl) * vel_(i, j + 1), f.area);
       });
   flux_e_.exchange();
   flux_n_.exchange();
@@ -320,7 +326,8 @@ IterationStatus FlowSolver::iterate() {
   status.model_absolute = model_.residuals();
   model_reference_.resize(status.model_absolute.size(), 0.0);
   for (size_t k = 0; k < status.model_absolute.size(); ++k) {
-    if (measure_references) model_reference_[k] = std::max(model_reference_[k], status.model_absolute[k].value);
+    if (measure_references)
+      model_reference_[k] = std::max(model_reference_[k], status.model_absolute[k].value);
     status.model_normalised.push_back(model_reference_[k] > 0.0
                                           ? status.model_absolute[k].value / model_reference_[k]
                                           : status.model_absolute[k].value);
@@ -415,7 +422,9 @@ void FlowSolver::solve_linear(KSP ksp, Vec rhs, Field& solution, int& iterations
   for (int j = grid_.y_begin(); j < grid_.y_end(); ++j)
     for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) x[j][i] = solution(i, j);
   check_petsc(DMDAVecRestoreArray(grid_.dm(), x_vec_.get(), &x));
-  check_petsc(KSPSolve(ksp, rhs, x_vec_.get()));
+  // The preconditioner's first set-up reads the options of its sub-solvers.
+  options_->use(ksp == ksp_mom_.get() ? "momentum solver" : "pressure solver",
+                [&] { return KSPSolve(ksp, rhs, x_vec_.get()); });
   KSPConvergedReason reason;
   check_petsc(KSPGetConvergedReason(ksp, &reason));
   PetscInt its = 0;

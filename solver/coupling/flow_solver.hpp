@@ -4,6 +4,8 @@
 #pragma once
 
 #include <functional>
+#include <memory>
+#include <string>
 #include <vector>
 
 #include "core/case_spec.hpp"
@@ -14,6 +16,7 @@
 #include "grid/boundary_faces.hpp"
 #include "grid/grid.hpp"
 #include "linear/petsc_handles.hpp"
+#include "linear/solver_options.hpp"
 #include "linear/stencil_matrix.hpp"
 #include "models/turbulence_model.hpp"
 
@@ -63,6 +66,9 @@ class FlowSolver {
  public:
   /// Collective. The spec, grid, boundary map and model must outlive the solver.
   FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap& boundaries, TurbulenceModel& model);
+  /// The defaults of the momentum and pressure solvers (option name with '-', value), which the
+  /// command line and the case file override.
+  static const std::vector<std::pair<std::string, std::string>>& default_options();
   FlowSolver(const FlowSolver&) = delete;
   FlowSolver& operator=(const FlowSolver&) = delete;
 
@@ -108,6 +114,12 @@ class FlowSolver {
   /// Collective: refreshes ghosts and derived data after a restart read. Throws InputError on
   /// every rank if the checkpoint's solid cells differ from the case's.
   void restarted();
+  /// Local: the PETSc options given on the command line or in the case file that neither this
+  /// solver's linear solvers nor the model's (nor PETSc itself) have read; meaningful after the
+  /// first iteration, when every solver has been set up.
+  std::vector<std::string> unused_options() const {
+    return options_used_by_none({options_.get(), model_.solver_options()});
+  }
   /// Collective: starts from the velocity, pressure and pressure gradient written into the
   /// restart_state() cells (e.g. interpolated from a coarser grid) at iteration 0: face fluxes
   /// from the interpolated velocity; the residual references measured so far (e.g. by one
@@ -200,6 +212,7 @@ class FlowSolver {
   Field d_setup_;   // SIMPLEC d of the last preconditioner set-up (restart state)
   bool preconditioner_ready_ = false;
   OwnedVec b_vec_, x_vec_;
+  std::unique_ptr<SolverOptions> options_;  // declared before the solvers that read it
   OwnedKsp ksp_mom_, ksp_pc_;
   OwnedNullSpace null_space_;
   OwnedVec fluid_indicator_;  // null vector of p' in a closed domain with solid cells

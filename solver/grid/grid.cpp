@@ -72,8 +72,21 @@ Grid::Grid(MPI_Comm comm, NodeCoordinates nodes, bool periodic_x)
   check_petsc(DMDACreate2d(comm_, periodic_x_ ? DM_BOUNDARY_PERIODIC : DM_BOUNDARY_NONE, DM_BOUNDARY_NONE,
                            DMDA_STENCIL_STAR, nx, ny, PETSC_DECIDE, PETSC_DECIDE, 1, 1, nullptr, nullptr,
                            dm_.out()));
+  // The grid's own options prefix: only options meant for it (-grid_da_processors_x, ...) reach
+  // it; options that would resize it are refused before a grid is built (app/petsc_option_checks).
+  check_petsc(DMSetOptionsPrefix(dm_.get(), "grid_"));
   check_petsc(DMSetFromOptions(dm_.get()));
   check_petsc(DMSetUp(dm_.get()));
+  PetscInt m = 0, n = 0, dof = 0, width = 0;
+  check_petsc(DMDAGetInfo(dm_.get(), nullptr, &m, &n, nullptr, nullptr, nullptr, nullptr, &dof, &width,
+                          nullptr, nullptr, nullptr, nullptr));
+  if (m != nx || n != ny || dof != 1 || width != 1) {
+    // The node coordinates and metrics are for nx x ny cells; a resized DMDA would index past them.
+    throw InputError("PETSc options of the grid (prefix -grid_): expected none that change the grid of " +
+                     std::to_string(nx) + " x " + std::to_string(ny) + " cells, got a grid of " +
+                     std::to_string(m) + " x " + std::to_string(n) + " cells, " + std::to_string(dof) +
+                     " value(s) and stencil width " + std::to_string(width));
+  }
   check_petsc(DMDAGetCorners(dm_.get(), &xs_, &ys_, nullptr, &xm_, &ym_, nullptr));
   check_petsc(DMDAGetGhostCorners(dm_.get(), &gxs_, &gys_, nullptr, &gxm_, &gym_, nullptr));
   check_petsc(DMCreateLocalVector(dm_.get(), scratch_local_.out()));

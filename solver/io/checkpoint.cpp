@@ -8,8 +8,10 @@
 
 #include <algorithm>
 #include <cerrno>
+#include <cmath>
 #include <csignal>
 #include <filesystem>
+#include <optional>
 #include <set>
 #include <string>
 #include <system_error>
@@ -17,6 +19,7 @@
 
 #include "core/error.hpp"
 #include "core/utc_time.hpp"
+#include "io/checkpoint_checksum.hpp"
 #include "io/checkpoint_format.hpp"
 #include "io/checkpoint_transfer.hpp"
 #include "io/hdf5_attributes.hpp"
@@ -137,6 +140,33 @@ void publish(const std::string& temporary, const std::string& path) {
   if (directory.get() >= 0) (void)::fsync(directory.get());  // best effort: not every file system allows it
 }
 
+// Local. Throws the InputError of a dataset `label` whose data do not match the stored checksum
+// (required from format version 3 on) or hold a non-finite value (`bad_at` names where; "" none).
+void judge_dataset(const std::string& label, const std::optional<uint32_t>& stored, uint32_t computed,
+                   int version, const std::string& bad_at) {
+  namespace checksum = checkpoint_checksum;
+  if (!stored && version >= 3)
+    throw InputError(label + ": expected attribute 'crc32' (format version 3), got none");
+  if (stored && *stored != computed) {
+    throw InputError(label + ": expected the data its checksum was written for (crc32 " +
+                     checksum::hex(*stored) + "), got data with crc32 " + checksum::hex(computed) +
+                     ": the file was changed or damaged after it was written");
+  }
+  if (!bad_at.empty())
+    throw InputError(label + ": expected finite values, got a non-finite value at " + bad_at);
+}
+
+// Collective. judge_dataset for this rank's `block` of a dataset read back; the same InputError on
+// every rank.
+void verify_dataset(MPI_Comm comm, const std::string& path, const std::string& dataset_path,
+                    const Block& block, const std::vector<double>& values,
+                    const std::optional<uint32_t>& stored, int version, const char* element) {
+  const uint32_t computed = checkpoint_checksum::dataset_crc32(comm, block, values);
+  const long long bad = checkpoint_checksum::first_non_finite(comm, block, values);
+  judge_dataset(path + ": dataset '" + dataset_path + "'", stored, computed, version,
+                bad < 0 ? "" : checkpoint_checksum::index_text(block, bad, element));
+}
+
 }  // namespace
 
 CheckpointMetadata write_checkpoint(const Grid& grid, const std::string& path,
@@ -186,7 +216,8 @@ CheckpointMetadata write_checkpoint(const Grid& grid, const std::string& path,
   };
   auto write = [&](hid_t group, const std::string& name, const Block& block,
                    const std::vector<double>& values) {
-    agree(comm, attempt([&] { write_dataset(group, name, block, values, transfer.get()); }));
+    const uint32_t crc = checkpoint_checksum::dataset_crc32(comm, block, values);
+    agree(comm, attempt([&] { write_dataset(group, name, block, values, transfer.get(), crc); }));
     ++n_written;
     maybe_abort();
   };
@@ -233,8 +264,9 @@ void read_checkpoint(const Grid& grid, const std::string& path, const std::vecto
   check_face_count(comm, path, layout);
   agree(comm, attempt([&] { check_request(grid, path, cells, layout, boundary, false); }));
   // Rank 0 alone finds bad files, so no rank enters a collective HDF5 call with one.
-  run_on_root(comm, [&] {
-    const Hdf5File file = format::open_for_validation(path);
+  const std::string version_text = run_on_root(comm, [&] {
+    int version = 0;
+    const Hdf5File file = format::open_for_validation(path, &version);
     const auto nx = static_cast<unsigned long long>(grid.cells_x());
     const auto ny = static_cast<unsigned long long>(grid.cells_y());
     for (const CellArray& cell : cells) {
@@ -244,8 +276,9 @@ void read_checkpoint(const Grid& grid, const std::string& path, const std::vecto
     for (const BoundaryArray& array : boundary) {
       format::check_dataset(file.get(), path, boundary_path(array.name), {n_faces}, "boundary faces");
     }
-    return std::string();
+    return std::to_string(version);
   });
+  const int version = std::stoi(version_text);
 
   Hdf5File file;
   Hdf5PropertyList transfer;
@@ -255,20 +288,26 @@ void read_checkpoint(const Grid& grid, const std::string& path, const std::vecto
             throw Error("checkpoint: cannot open '" + path + "' in parallel (" + hdf5_error_text() + ")");
           transfer = collective_transfer();
         }));
+  // Each dataset is read, then its checksum (format version 3) and its values are checked.
+  auto read = [&](const std::string& dataset_path, const Block& block, const char* element) {
+    std::vector<double> values;
+    std::optional<uint32_t> stored;
+    agree(comm, attempt([&] {
+            values = read_dataset(file.get(), dataset_path, block, transfer.get());
+            const Hdf5Dataset dataset(
+                check_hdf5(H5Dopen2(file.get(), dataset_path.c_str(), H5P_DEFAULT), "H5Dopen2"));
+            stored =
+                checkpoint_checksum::read_crc32(dataset.get(), path + ": dataset '" + dataset_path + "'");
+          }));
+    verify_dataset(comm, path, dataset_path, block, values, stored, version, element);
+    return values;
+  };
   std::vector<std::vector<double>> cell_values(cells.size()), face_values(boundary.size());
-  for (size_t k = 0; k < cells.size(); ++k) {
-    agree(comm, attempt([&] {
-            cell_values[k] =
-                read_dataset(file.get(), field_path(cells[k].name), cell_block(grid), transfer.get());
-          }));
-  }
+  for (size_t k = 0; k < cells.size(); ++k)
+    cell_values[k] = read(field_path(cells[k].name), cell_block(grid), "cell");
   const FaceOrder order = face_order(layout);
-  for (size_t k = 0; k < boundary.size(); ++k) {
-    agree(comm, attempt([&] {
-            face_values[k] = read_dataset(file.get(), boundary_path(boundary[k].name),
-                                          face_block(layout, order), transfer.get());
-          }));
-  }
+  for (size_t k = 0; k < boundary.size(); ++k)
+    face_values[k] = read(boundary_path(boundary[k].name), face_block(layout, order), "face");
   agree(comm, attempt([&] { file.close_checked("H5Fclose"); }));
 
   // Every array was read: only now are the caller's arrays changed.
@@ -285,6 +324,67 @@ void read_checkpoint(const Grid& grid, const std::string& path, const std::vecto
     values.resize(layout.ids.size());
     for (size_t n = 0; n < order.positions.size(); ++n) values[order.positions[n]] = face_values[k][n];
   }
+}
+
+}  // namespace wallrans
+
+namespace wallrans {
+
+void verify_checkpoint_data(MPI_Comm comm, const std::string& path) {
+  const QuietHdf5Errors quiet;
+  run_on_root(comm, [&] {
+    int version = 0;
+    const Hdf5File file = format::open_for_validation(path, &version);
+    for (const char* group_name : {format::fields_group, format::boundary_group, format::grid_group}) {
+      const std::string group_path = std::string("/") + group_name;
+      if (!has_object(file.get(), group_path)) continue;
+      const Hdf5Group group(check_hdf5(H5Gopen2(file.get(), group_name, H5P_DEFAULT), "H5Gopen2"));
+      H5G_info_t info;
+      check_hdf5(H5Gget_info(group.get(), &info), "H5Gget_info");
+      for (hsize_t k = 0; k < info.nlinks; ++k) {
+        const ssize_t length = check_hdf5(
+            H5Lget_name_by_idx(group.get(), ".", H5_INDEX_NAME, H5_ITER_INC, k, nullptr, 0, H5P_DEFAULT),
+            "H5Lget_name_by_idx");
+        std::string name(static_cast<size_t>(length), '\0');
+        check_hdf5(H5Lget_name_by_idx(group.get(), ".", H5_INDEX_NAME, H5_ITER_INC, k, name.data(),
+                                      static_cast<size_t>(length) + 1, H5P_DEFAULT),
+                   "H5Lget_name_by_idx");
+        const std::string dataset_path = group_path + "/" + name;
+        const Hdf5Dataset dataset(H5Dopen2(file.get(), dataset_path.c_str(), H5P_DEFAULT));
+        if (!dataset) continue;
+        const Hdf5Space space(check_hdf5(H5Dget_space(dataset.get()), "H5Dget_space"));
+        const int n_dims = static_cast<int>(
+            check_hdf5(H5Sget_simple_extent_ndims(space.get()), "H5Sget_simple_extent_ndims"));
+        if (n_dims < 1 || n_dims > 2) continue;
+        Block block;
+        block.global.assign(static_cast<size_t>(n_dims), 0);
+        check_hdf5(H5Sget_simple_extent_dims(space.get(), block.global.data(), nullptr),
+                   "H5Sget_simple_extent_dims");
+        block.count = block.global;
+        std::vector<double> values(block.size());
+        double unused = 0.0;
+        check_hdf5(H5Dread(dataset.get(), H5T_NATIVE_DOUBLE, H5S_ALL, H5S_ALL, H5P_DEFAULT,
+                           values.empty() ? &unused : values.data()),
+                   "H5Dread");
+        const std::string label = path + ": dataset '" + dataset_path + "'";
+        std::string bad_at;
+        const auto bad =
+            std::find_if(values.begin(), values.end(), [](double v) { return !std::isfinite(v); });
+        if (bad != values.end()) {
+          const auto index = static_cast<hsize_t>(bad - values.begin());
+          const std::string element = group_name == format::grid_group ? "node"
+                                      : n_dims == 1                    ? "face id"
+                                                                       : "cell";
+          bad_at = n_dims == 1 ? element + " " + std::to_string(index)
+                               : element + " (" + std::to_string(index % block.global[1]) + ", " +
+                                     std::to_string(index / block.global[1]) + ")";
+        }
+        judge_dataset(label, checkpoint_checksum::read_crc32(dataset.get(), label),
+                      checkpoint_checksum::crc32_of(values.data(), values.size()), version, bad_at);
+      }
+    }
+    return std::string();
+  });
 }
 
 }  // namespace wallrans

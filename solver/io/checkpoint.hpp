@@ -17,8 +17,9 @@ namespace wallrans {
 /// What a checkpoint says about the run that wrote it. In the file: attributes of the root group
 /// ("iteration", "turbulence_model", "turbulence_variant", "cells_x", "cells_y",
 /// "grid_fingerprint", "case_hash", "program_version", "written_at") next to the format marker
-/// "format" = "wallrans-checkpoint" and "format_version" = 2; each scalar is a double attribute of
-/// the group "/scalars", kept in the order given.
+/// "format" = "wallrans-checkpoint" and "format_version" = 3; each scalar is a double attribute of
+/// the group "/scalars", kept in the order given. Every dataset carries the CRC-32 of its data
+/// (zlib's, over the stored little-endian doubles in dataset order) as the attribute "crc32".
 struct CheckpointMetadata {
   int iteration = 0;
   std::string model, variant;    ///< turbulence model and variant
@@ -96,6 +97,13 @@ CheckpointMetadata read_checkpoint_metadata(MPI_Comm comm, const std::string& pa
 /// expected and found dimensions. Nothing is modified unless every array was read.
 void read_checkpoint(const Grid& grid, const std::string& path, const std::vector<CellArray>& cells,
                      const BoundaryLayout& layout, const std::vector<BoundaryArray>& boundary);
+
+/// Collective over `comm`. Rank 0 reads every dataset of the groups "/fields", "/boundary" and
+/// "/grid" of <path> whole (serial driver) and checks it as read_checkpoint does: its checksum
+/// (attribute "crc32", required from format version 3 on) and finite values. Throws the same
+/// one-line InputError on every rank, naming the file, the dataset and the first bad cell, face or
+/// node. For `check`, which has no solver to read a checkpoint into.
+void verify_checkpoint_data(MPI_Comm comm, const std::string& path);
 
 /// Local (rank 0 calls it). Writes the XDMF (XML) description of a checkpoint written with these
 /// metadata: a 2-D curvilinear mesh ("2DSMesh", geometry X_Y) from "/grid/x" and "/grid/y" and

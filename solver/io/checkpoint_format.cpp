@@ -2,6 +2,7 @@
 // before any collective call touches it, and the metadata byte image for broadcasts.
 #include "io/checkpoint_format.hpp"
 
+#include <cmath>
 #include <cstdint>
 #include <cstring>
 #include <type_traits>
@@ -106,7 +107,7 @@ void write_metadata(hid_t file, const CheckpointMetadata& metadata) {
   for (const auto& [name, value] : metadata.scalars) write_double_attribute(scalars.get(), name, value);
 }
 
-Hdf5File open_for_validation(const std::string& path) {
+Hdf5File open_for_validation(const std::string& path, int* version_out) {
   const std::string expected = path + ": expected a wallrans checkpoint (HDF5 with attribute 'format'), got ";
   Hdf5File file = open_hdf5_read_only(path, expected);
   if (!has_attribute(file.get(), format_attribute)) {
@@ -117,7 +118,7 @@ Hdf5File open_for_validation(const std::string& path) {
   if (format != marker) throw InputError(expected + "attribute 'format' = '" + excerpt(format) + "'");
   const int found_version =
       read_int_attribute(file.get(), version_attribute, path + ": attribute 'format_version'");
-  if (found_version != version) {
+  if (found_version < oldest_readable_version || found_version > version) {
     // Version 1 kept boundary fluxes per block side and partly inside the east/north face
     // fields; no converter is provided.
     const std::string advice =
@@ -125,9 +126,11 @@ Hdf5File open_for_validation(const std::string& path) {
             ? " (an older checkpoint with boundary arrays per block side, which this wallrans cannot "
               "read: rerun the case from the start)"
             : "";
-    throw InputError(path + ": attribute 'format_version': expected " + std::to_string(version) + ", got " +
+    throw InputError(path + ": attribute 'format_version': expected " +
+                     std::to_string(oldest_readable_version) + " or " + std::to_string(version) + ", got " +
                      std::to_string(found_version) + advice);
   }
+  if (version_out) *version_out = found_version;
   return file;
 }
 
@@ -159,9 +162,11 @@ CheckpointMetadata read_metadata(hid_t file, const std::string& path) {
   const Hdf5Group group(H5Gopen2(file, scalars_group, H5P_DEFAULT));
   if (!group) throw InputError(group_label + ": expected a group of scalars, got another kind of object");
   for (const std::string& name : attribute_names(group.get())) {
-    metadata.scalars.emplace_back(
-        name, read_double_attribute(group.get(), name,
-                                    path + ": attribute '" + name + "' of '" + group_path + "'"));
+    const std::string label = path + ": attribute '" + name + "' of '" + group_path + "'";
+    const double value = read_double_attribute(group.get(), name, label);
+    if (!std::isfinite(value))
+      throw InputError(label + ": expected a finite number, got " + std::to_string(value));
+    metadata.scalars.emplace_back(name, value);
   }
   return metadata;
 }

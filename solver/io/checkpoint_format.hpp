@@ -12,7 +12,10 @@
 namespace wallrans::checkpoint_format {
 
 inline constexpr const char* marker = "wallrans-checkpoint";
-inline constexpr int version = 2;
+/// Version 3: every dataset carries the attribute "crc32" (io/checkpoint_checksum.hpp). Version 2
+/// (the same layout without checksums) is still read, unverified.
+inline constexpr int version = 3;
+inline constexpr int oldest_readable_version = 2;
 inline constexpr const char* fields_group = "fields";
 inline constexpr const char* boundary_group = "boundary";
 inline constexpr const char* grid_group = "grid";
@@ -29,8 +32,9 @@ void write_metadata(hid_t file, const CheckpointMetadata& metadata);
 /// Local. Opens <path> read-only with the serial driver and checks the format marker and version.
 /// Throws InputError "<path>: expected a wallrans checkpoint (HDF5 with attribute 'format'), got
 /// ..." for a missing, non-HDF5, unreadable or truncated file or a missing or wrong marker, and
-/// "<path>: attribute 'format_version': expected 2, got ..." for another version.
-Hdf5File open_for_validation(const std::string& path);
+/// "<path>: attribute 'format_version': expected 2 or 3, got ..." for another version, which goes
+/// to `found_version` if given.
+Hdf5File open_for_validation(const std::string& path, int* found_version = nullptr);
 
 /// Local. Reads and validates the metadata of an open checkpoint; InputError names `path`.
 CheckpointMetadata read_metadata(hid_t file, const std::string& path);

@@ -4,6 +4,8 @@
 
 #include <algorithm>
 
+#include "io/checkpoint_checksum.hpp"
+
 namespace wallrans::checkpoint_transfer {
 
 namespace {
@@ -99,7 +101,7 @@ Hdf5PropertyList parallel_access(MPI_Comm comm) {
 }
 
 void write_dataset(hid_t group, const std::string& name, const Block& block,
-                   const std::vector<double>& values, hid_t transfer) {
+                   const std::vector<double>& values, hid_t transfer, uint32_t crc) {
   const Hdf5Space file_space(
       check_hdf5(H5Screate_simple(static_cast<int>(block.global.size()), block.global.data(), nullptr),
                  "H5Screate_simple"));
@@ -113,6 +115,7 @@ void write_dataset(hid_t group, const std::string& name, const Block& block,
   check_hdf5(H5Dwrite(dataset.get(), H5T_NATIVE_DOUBLE, memory.get(), file_space.get(), transfer,
                       values.empty() ? &unused : values.data()),
              "H5Dwrite");
+  checkpoint_checksum::write_crc32(dataset.get(), crc);
 }
 
 std::vector<double> read_dataset(hid_t file, const std::string& dataset_path, const Block& block,

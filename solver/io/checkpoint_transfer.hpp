@@ -4,6 +4,7 @@
 
 #include <mpi.h>
 
+#include <cstdint>
 #include <string>
 #include <vector>
 
@@ -52,10 +53,11 @@ Hdf5Space select_block(hid_t file_space, const Block& block);
 Hdf5PropertyList collective_transfer();
 Hdf5PropertyList parallel_access(MPI_Comm comm);
 
-/// Collective. Creates dataset `name` in `group` (64-bit little-endian floats, no fill pass) and
-/// writes this rank's block of `values` collectively.
+/// Collective. Creates dataset `name` in `group` (64-bit little-endian floats, no fill pass),
+/// writes this rank's block of `values` collectively and the dataset's checksum `crc`
+/// (checkpoint_checksum::dataset_crc32 of the values) as its attribute "crc32".
 void write_dataset(hid_t group, const std::string& name, const Block& block,
-                   const std::vector<double>& values, hid_t transfer);
+                   const std::vector<double>& values, hid_t transfer, uint32_t crc);
 /// Collective. Reads this rank's block of dataset `dataset_path` (already validated by rank 0).
 std::vector<double> read_dataset(hid_t file, const std::string& dataset_path, const Block& block,
                                  hid_t transfer);

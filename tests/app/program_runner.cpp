@@ -242,4 +242,11 @@ std::vector<std::string> lines_of(const std::string& text) {
   return lines;
 }
 
+std::vector<std::string> program_lines(const std::string& text) {
+  std::vector<std::string> lines;
+  for (const auto& line : lines_of(text))
+    if (line.rfind("wallrans", 0) == 0) lines.push_back(line);
+  return lines;
+}
+
 }  // namespace wallrans::test_support

@@ -112,4 +112,8 @@ int line_containing(const std::string& text, const std::string& marker);
 /// The lines of `text` (split at '\n'; a final newline does not start another line).
 std::vector<std::string> lines_of(const std::string& text);
 
+/// The program's own lines of `text` (those starting "wallrans"; under a launcher stderr also
+/// holds the launcher's notice of a non-zero exit).
+std::vector<std::string> program_lines(const std::string& text);
+
 }  // namespace wallrans::test_support

@@ -10,12 +10,20 @@ Exits non-zero (with a message) if a check fails; `xdmf` prints the number of Da
 import os
 import sys
 import xml.etree.ElementTree as ElementTree
+import zlib
 
 import h5py
 
 
 def text(value):
     return value.decode() if isinstance(value, bytes) else str(value)
+
+
+def check_crc32(data):
+    """The dataset's attribute crc32 is zlib's CRC-32 of its values as little-endian doubles."""
+    stored = int(data.attrs["crc32"])
+    computed = zlib.crc32(data[()].astype("<f8").tobytes())
+    assert stored == computed, (data.name, stored, computed)
 
 
 def check_dataset(path, name, ny, nx, j, i, expected):
@@ -25,18 +33,21 @@ def check_dataset(path, name, ny, nx, j, i, expected):
         assert data.shape == (ny, nx), (name, data.shape)
         assert data.dtype.kind == "f" and data.dtype.itemsize == 8, data.dtype
         assert float(data[j, i]) == expected, (name, j, i, float(data[j, i]), expected)
+        check_crc32(data)
         for coordinate in ("/grid/x", "/grid/y"):
             assert f[coordinate].shape == (ny + 1, nx + 1), (coordinate, f[coordinate].shape)
+            check_crc32(f[coordinate])
 
 
 def check_boundary(path, name, n_faces, face_id, expected):
     with h5py.File(path, "r") as f:
         assert text(f.attrs["format"]) == "wallrans-checkpoint", f.attrs["format"]
-        assert int(f.attrs["format_version"]) == 2, f.attrs["format_version"]
+        assert int(f.attrs["format_version"]) == 3, f.attrs["format_version"]
         data = f[name]
         assert data.shape == (n_faces,), (name, data.shape)
         assert data.dtype.kind == "f" and data.dtype.itemsize == 8, data.dtype
         assert float(data[face_id]) == expected, (name, face_id, float(data[face_id]), expected)
+        check_crc32(data)
 
 
 def check_xdmf(path):
