@@ -6,7 +6,7 @@ packages=(
   build-essential cmake pkg-config git
   petsc-dev libhdf5-openmpi-dev libyaml-cpp-dev libvtk9-dev libopenmpi-dev openmpi-bin zlib1g-dev
   libgtest-dev hdf5-tools python3 python3-numpy python3-h5py python3-vtk9
-  libcgns-dev cgns-convert python3-sympy python3-matplotlib libcli11-dev nlohmann-json3-dev
+  libcgns-dev cgns-convert python3-sympy python3-matplotlib python3-yaml libcli11-dev nlohmann-json3-dev
 )
 missing=()
 for p in "${packages[@]}"; do
