@@ -26,6 +26,7 @@ cmake -S "$root" -B "$build" -DCMAKE_C_COMPILER=clang -DCMAKE_CXX_COMPILER=clang
 cmake --build "$build" -j2 --target fuzz_make_seeds "${targets[@]/#/fuzz_}"
 
 status=0
+source "$root/tools/sanitize_env.sh"  # for the seed writer, which the runs need first
 ctest --test-dir "$build" -L fuzz -j2 --output-on-failure || status=$?
 for target in "${targets[@]}"; do
   for input in "$build/fuzz-work/$target/artifacts"/*; do

@@ -5,6 +5,7 @@
 
 #include <cstddef>
 #include <cstdint>
+#include <cstdlib>
 #include <memory>
 #include <numeric>
 #include <string>
@@ -51,7 +52,9 @@ Reader* reader = nullptr;
 
 extern "C" int LLVMFuzzerInitialize(int*, char***) {
   fuzz::start_petsc();
-  reader = new Reader();  // kept for the life of the process
+  reader = new Reader();
+  // Destroyed at exit before PETSc ends (exit handlers run in reverse order of registration).
+  std::atexit([] { delete reader; });
   return 0;
 }
 
