@@ -252,8 +252,10 @@ CheckpointMetadata write_checkpoint(const Grid& grid, const std::string& path,
 CheckpointMetadata read_checkpoint_metadata(MPI_Comm comm, const std::string& path) {
   const QuietHdf5Errors quiet;
   return format::unpack(run_on_root(comm, [&] {
-    const Hdf5File file = format::open_for_validation(path);
-    return format::pack(format::read_metadata(file.get(), path));
+    return read_input_file(format::expected_checkpoint(path), [&] {
+      const Hdf5File file = format::open_for_validation(path);
+      return format::pack(format::read_metadata(file.get(), path));
+    });
   }));
 }
 
@@ -263,52 +265,56 @@ void read_checkpoint(const Grid& grid, const std::string& path, const std::vecto
   const MPI_Comm comm = grid.comm();
   check_face_count(comm, path, layout);
   agree(comm, attempt([&] { check_request(grid, path, cells, layout, boundary, false); }));
-  // Rank 0 alone finds bad files, so no rank enters a collective HDF5 call with one.
-  const std::string version_text = run_on_root(comm, [&] {
-    int version = 0;
-    const Hdf5File file = format::open_for_validation(path, &version);
-    const auto nx = static_cast<unsigned long long>(grid.cells_x());
-    const auto ny = static_cast<unsigned long long>(grid.cells_y());
-    for (const CellArray& cell : cells) {
-      format::check_dataset(file.get(), path, field_path(cell.name), {ny, nx}, "cells_y x cells_x");
-    }
-    const auto n_faces = static_cast<unsigned long long>(layout.n_faces);
-    for (const BoundaryArray& array : boundary) {
-      format::check_dataset(file.get(), path, boundary_path(array.name), {n_faces}, "boundary faces");
-    }
-    return std::to_string(version);
-  });
-  const int version = std::stoi(version_text);
-
-  Hdf5File file;
-  Hdf5PropertyList transfer;
-  agree(comm, attempt([&] {
-          file = Hdf5File(H5Fopen(path.c_str(), H5F_ACC_RDONLY, parallel_access(comm).get()));
-          if (!file)
-            throw Error("checkpoint: cannot open '" + path + "' in parallel (" + hdf5_error_text() + ")");
-          transfer = collective_transfer();
-        }));
-  // Each dataset is read, then its checksum (format version 3) and its values are checked.
-  auto read = [&](const std::string& dataset_path, const Block& block, const char* element) {
-    std::vector<double> values;
-    std::optional<uint32_t> stored;
-    agree(comm, attempt([&] {
-            values = read_dataset(file.get(), dataset_path, block, transfer.get());
-            const Hdf5Dataset dataset(
-                check_hdf5(H5Dopen2(file.get(), dataset_path.c_str(), H5P_DEFAULT), "H5Dopen2"));
-            stored =
-                checkpoint_checksum::read_crc32(dataset.get(), path + ": dataset '" + dataset_path + "'");
-          }));
-    verify_dataset(comm, path, dataset_path, block, values, stored, version, element);
-    return values;
-  };
   std::vector<std::vector<double>> cell_values(cells.size()), face_values(boundary.size());
-  for (size_t k = 0; k < cells.size(); ++k)
-    cell_values[k] = read(field_path(cells[k].name), cell_block(grid), "cell");
   const FaceOrder order = face_order(layout);
-  for (size_t k = 0; k < boundary.size(); ++k)
-    face_values[k] = read(boundary_path(boundary[k].name), face_block(layout, order), "face");
-  agree(comm, attempt([&] { file.close_checked("H5Fclose"); }));
+  // A damaged file can pass rank 0's checks and fail in a collective read; every failure below is
+  // agreed by all ranks, so all turn it into the same InputError.
+  read_input_file(format::expected_checkpoint(path), [&] {
+    // Rank 0 alone finds bad files, so no rank enters a collective HDF5 call with one.
+    const std::string version_text = run_on_root(comm, [&] {
+      int version = 0;
+      const Hdf5File file = format::open_for_validation(path, &version);
+      const auto nx = static_cast<unsigned long long>(grid.cells_x());
+      const auto ny = static_cast<unsigned long long>(grid.cells_y());
+      for (const CellArray& cell : cells) {
+        format::check_dataset(file.get(), path, field_path(cell.name), {ny, nx}, "cells_y x cells_x");
+      }
+      const auto n_faces = static_cast<unsigned long long>(layout.n_faces);
+      for (const BoundaryArray& array : boundary) {
+        format::check_dataset(file.get(), path, boundary_path(array.name), {n_faces}, "boundary faces");
+      }
+      return std::to_string(version);
+    });
+    const int version = std::stoi(version_text);
+
+    Hdf5File file;
+    Hdf5PropertyList transfer;
+    agree(comm, attempt([&] {
+            file = Hdf5File(H5Fopen(path.c_str(), H5F_ACC_RDONLY, parallel_access(comm).get()));
+            if (!file)
+              throw Error("checkpoint: cannot open '" + path + "' in parallel (" + hdf5_error_text() + ")");
+            transfer = collective_transfer();
+          }));
+    // Each dataset is read, then its checksum (format version 3) and its values are checked.
+    auto read = [&](const std::string& dataset_path, const Block& block, const char* element) {
+      std::vector<double> values;
+      std::optional<uint32_t> stored;
+      agree(comm, attempt([&] {
+              values = read_dataset(file.get(), dataset_path, block, transfer.get());
+              const Hdf5Dataset dataset(
+                  check_hdf5(H5Dopen2(file.get(), dataset_path.c_str(), H5P_DEFAULT), "H5Dopen2"));
+              stored =
+                  checkpoint_checksum::read_crc32(dataset.get(), path + ": dataset '" + dataset_path + "'");
+            }));
+      verify_dataset(comm, path, dataset_path, block, values, stored, version, element);
+      return values;
+    };
+    for (size_t k = 0; k < cells.size(); ++k)
+      cell_values[k] = read(field_path(cells[k].name), cell_block(grid), "cell");
+    for (size_t k = 0; k < boundary.size(); ++k)
+      face_values[k] = read(boundary_path(boundary[k].name), face_block(layout, order), "face");
+    agree(comm, attempt([&] { file.close_checked("H5Fclose"); }));
+  });
 
   // Every array was read: only now are the caller's arrays changed.
   for (size_t k = 0; k < cells.size(); ++k) {

@@ -9,6 +9,7 @@
 
 #include "core/error.hpp"
 #include "io/hdf5_attributes.hpp"
+#include "io/text_excerpt.hpp"
 
 namespace wallrans::checkpoint_format {
 
@@ -16,14 +17,6 @@ namespace {
 
 constexpr const char* format_attribute = "format";
 constexpr const char* version_attribute = "format_version";
-
-// A short, printable excerpt of text found in a file, for messages that must stay on one line.
-std::string excerpt(const std::string& text) {
-  constexpr size_t limit = 60;
-  std::string out;
-  for (const char c : text.substr(0, limit)) out += static_cast<unsigned char>(c) < 0x20 ? '?' : c;
-  return text.size() > limit ? out + "..." : out;
-}
 
 std::string dims_text(const std::vector<unsigned long long>& dims) {
   std::string text;
@@ -107,8 +100,12 @@ void write_metadata(hid_t file, const CheckpointMetadata& metadata) {
   for (const auto& [name, value] : metadata.scalars) write_double_attribute(scalars.get(), name, value);
 }
 
+std::string expected_checkpoint(const std::string& path) {
+  return path + ": expected a wallrans checkpoint (HDF5 with attribute 'format'), got ";
+}
+
 Hdf5File open_for_validation(const std::string& path, int* version_out) {
-  const std::string expected = path + ": expected a wallrans checkpoint (HDF5 with attribute 'format'), got ";
+  const std::string expected = expected_checkpoint(path);
   Hdf5File file = open_hdf5_read_only(path, expected);
   if (!has_attribute(file.get(), format_attribute)) {
     throw InputError(expected + "an HDF5 file without attribute 'format'");
@@ -162,7 +159,7 @@ CheckpointMetadata read_metadata(hid_t file, const std::string& path) {
   const Hdf5Group group(H5Gopen2(file, scalars_group, H5P_DEFAULT));
   if (!group) throw InputError(group_label + ": expected a group of scalars, got another kind of object");
   for (const std::string& name : attribute_names(group.get())) {
-    const std::string label = path + ": attribute '" + name + "' of '" + group_path + "'";
+    const std::string label = path + ": attribute '" + excerpt(name) + "' of '" + group_path + "'";
     const double value = read_double_attribute(group.get(), name, label);
     if (!std::isfinite(value))
       throw InputError(label + ": expected a finite number, got " + std::to_string(value));

@@ -29,6 +29,10 @@ bool is_valid_name(const std::string& name);
 /// marker, the metadata attributes and the "/scalars" group.
 void write_metadata(hid_t file, const CheckpointMetadata& metadata);
 
+/// Local. The start of every "not a checkpoint" message: "<path>: expected a wallrans checkpoint
+/// (HDF5 with attribute 'format'), got ".
+std::string expected_checkpoint(const std::string& path);
+
 /// Local. Opens <path> read-only with the serial driver and checks the format marker and version.
 /// Throws InputError "<path>: expected a wallrans checkpoint (HDF5 with attribute 'format'), got
 /// ..." for a missing, non-HDF5, unreadable or truncated file or a missing or wrong marker, and

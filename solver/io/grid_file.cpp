@@ -33,10 +33,8 @@ std::vector<double> gather_bands(MPI_Comm comm, const std::vector<double>& band,
   return all;
 }
 
-}  // namespace
-
-GridFileContent read_grid_file(MPI_Comm comm, const std::string& path) {
-  const QuietHdf5Errors quiet;
+// Collective. read_grid_file before damaged-file errors become input errors.
+GridFileContent read_collectively(MPI_Comm comm, const std::string& path) {
   const std::string header_text = run_on_root(comm, [&] {
     const Hdf5File file = format::open_for_reading(path);
     const format::Header header = format::read_header(file.get(), path);
@@ -88,6 +86,14 @@ GridFileContent read_grid_file(MPI_Comm comm, const std::string& path) {
   // Every rank holds the same nodes, so every rank reaches the same verdict.
   check_content(content, path);
   return content;
+}
+
+}  // namespace
+
+GridFileContent read_grid_file(MPI_Comm comm, const std::string& path) {
+  const QuietHdf5Errors quiet;
+  // Every failure inside is agreed by all ranks (or found by all alike), so all convert it alike.
+  return read_input_file(format::expected_grid_file(path), [&] { return read_collectively(comm, path); });
 }
 
 void write_grid_file(MPI_Comm comm, const std::string& path, const GridFileContent& content) {

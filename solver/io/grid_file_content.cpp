@@ -9,6 +9,7 @@
 #include <utility>
 
 #include "core/error.hpp"
+#include "io/text_excerpt.hpp"
 
 namespace wallrans {
 
@@ -57,11 +58,11 @@ bool is_valid_patch_name(const std::string& name) {
 void check_patch(const GridPatch& patch, int cells_x, int cells_y, const std::string& label) {
   if (!is_valid_patch_name(patch.name)) {
     throw InputError(label + ": expected a name of 1 to 32 printable ASCII characters without '/', got '" +
-                     patch.name.substr(0, 40) + "'");
+                     excerpt(patch.name) + "'");
   }
   if (!is_valid_kind(patch.kind)) {
     throw InputError(label + ": attribute 'kind': expected letters, digits and '_' (at most 32), got '" +
-                     patch.kind.substr(0, 40) + "'");
+                     excerpt(patch.kind) + "'");
   }
   const int n = faces_on_side(patch.side, cells_x, cells_y);
   if (patch.first_face < 0 || patch.last_face >= n || patch.first_face > patch.last_face) {
@@ -86,7 +87,7 @@ void check_content(const GridFileContent& content, const std::string& path) {
   }
   std::set<std::string> names;
   for (const GridPatch& patch : content.patches) {
-    const std::string label = path + ": patch '" + patch.name + "'";
+    const std::string label = path + ": patch '" + excerpt(patch.name) + "'";
     check_patch(patch, nodes.cells_x, nodes.cells_y, label);
     if (!names.insert(patch.name).second) throw InputError(label + ": expected a unique name, got it twice");
   }

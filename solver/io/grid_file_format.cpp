@@ -7,6 +7,7 @@
 #include "core/atomic_file.hpp"
 #include "core/error.hpp"
 #include "io/hdf5_attributes.hpp"
+#include "io/text_excerpt.hpp"
 
 namespace wallrans::grid_file_format {
 
@@ -73,7 +74,7 @@ std::vector<GridPatch> read_patches(hid_t file, const std::string& path, int cel
   }
   std::vector<GridPatch> patches;
   for (const std::string& name : member_names(group.get())) {
-    const std::string label = path + ": patch '" + name + "'";
+    const std::string label = path + ": patch '" + excerpt(name) + "'";
     const Hdf5Group member(H5Gopen2(group.get(), name.c_str(), H5P_DEFAULT));
     if (!member)
       throw InputError(
@@ -85,7 +86,7 @@ std::vector<GridPatch> read_patches(hid_t file, const std::string& path, int cel
     const auto parsed = side_from_name(side);
     if (!parsed) {
       throw InputError(label + ": attribute 'side': expected one of left, right, bottom, top, got '" +
-                       side.substr(0, 40) + "'");
+                       excerpt(side) + "'");
     }
     patch.side = *parsed;
     patch.first_face = read_int_attribute(member.get(), "first_face", label + ": attribute 'first_face'");
@@ -163,17 +164,20 @@ std::string file_image(const GridFileContent& content) {
 
 }  // namespace
 
+std::string expected_grid_file(const std::string& path) {
+  return path + ": expected a wallrans grid file (HDF5 with attribute 'format' = '" + layout::marker +
+         "'), got ";
+}
+
 Hdf5File open_for_reading(const std::string& path) {
-  const std::string expected = path + ": expected a wallrans grid file (HDF5 with attribute 'format' = '" +
-                               layout::marker + "'), got ";
+  const std::string expected = expected_grid_file(path);
   Hdf5File file = open_hdf5_read_only(path, expected);
   if (!has_attribute(file.get(), format_attribute)) {
     throw InputError(expected + "an HDF5 file without attribute 'format'");
   }
   const std::string format =
       read_string_attribute(file.get(), format_attribute, path + ": attribute 'format'");
-  if (format != layout::marker)
-    throw InputError(expected + "attribute 'format' = '" + format.substr(0, 40) + "'");
+  if (format != layout::marker) throw InputError(expected + "attribute 'format' = '" + excerpt(format) + "'");
   const int version =
       read_int_attribute(file.get(), version_attribute, path + ": attribute 'format_version'");
   if (version != layout::version) {
@@ -208,20 +212,22 @@ Header read_header(hid_t file, const std::string& path) {
 
 GridFileContent read_file(const std::string& path) {
   const QuietHdf5Errors quiet;
-  const Hdf5File file = open_for_reading(path);
-  const Header header = read_header(file.get(), path);
-  GridFileContent content;
-  NodeCoordinates& nodes = content.nodes;
-  nodes.cells_x = header.cells_x;
-  nodes.cells_y = header.cells_y;
-  const size_t n = static_cast<size_t>(header.cells_x + 1) * (header.cells_y + 1);
-  const std::vector<double> x = read_whole(file.get(), layout::x_dataset, n);
-  const std::vector<double> y = read_whole(file.get(), layout::y_dataset, n);
-  nodes.nodes.resize(n);
-  for (size_t k = 0; k < n; ++k) nodes.nodes[k] = {x[k], y[k]};
-  content.patches = header.patches;
-  check_content(content, path);
-  return content;
+  return read_input_file(expected_grid_file(path), [&] {
+    const Hdf5File file = open_for_reading(path);
+    const Header header = read_header(file.get(), path);
+    GridFileContent content;
+    NodeCoordinates& nodes = content.nodes;
+    nodes.cells_x = header.cells_x;
+    nodes.cells_y = header.cells_y;
+    const size_t n = static_cast<size_t>(header.cells_x + 1) * (header.cells_y + 1);
+    const std::vector<double> x = read_whole(file.get(), layout::x_dataset, n);
+    const std::vector<double> y = read_whole(file.get(), layout::y_dataset, n);
+    nodes.nodes.resize(n);
+    for (size_t k = 0; k < n; ++k) nodes.nodes[k] = {x[k], y[k]};
+    content.patches = header.patches;
+    check_content(content, path);
+    return content;
+  });
 }
 
 void write_file(const std::string& path, const GridFileContent& content) {

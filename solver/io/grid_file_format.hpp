@@ -18,6 +18,10 @@ struct Header {
   std::vector<GridPatch> patches;
 };
 
+/// Local. The start of every "not a grid file" message: "<path>: expected a wallrans grid file
+/// (HDF5 with attribute 'format' = 'wallrans-grid'), got ".
+std::string expected_grid_file(const std::string& path);
+
 /// Local. Opens <path> read-only and checks the format marker and version. Throws InputError
 /// "<path>: expected a wallrans grid file (HDF5 with attribute 'format' = 'wallrans-grid'), got
 /// ..." for a missing, non-HDF5, unreadable or truncated file or a missing or wrong marker, and

@@ -21,13 +21,6 @@ herr_t collect_entry(unsigned /*depth*/, const H5E_error2_t* entry, void* client
   return 0;
 }
 
-std::string one_line(std::string text) {
-  for (char& c : text) {
-    if (c == '\n' || c == '\r') c = ' ';
-  }
-  return text;
-}
-
 }  // namespace
 
 std::string hdf5_error_text() {

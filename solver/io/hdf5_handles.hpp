@@ -9,6 +9,9 @@
 #include <string>
 #include <utility>
 
+#include "core/error.hpp"
+#include "io/text_excerpt.hpp"
+
 namespace wallrans {
 
 /// Local. Throws wallrans::Error if `code` is negative (HDF5's failure value for herr_t, htri_t and
@@ -86,6 +89,22 @@ using Hdf5PropertyList = Hdf5Owner<H5Pclose>;
 /// truncated file throw InputError "<expected><what was found>", where `expected` starts the
 /// message (e.g. "run/c_5.h5: expected a wallrans checkpoint (HDF5 with attribute 'format'), got ").
 Hdf5File open_hdf5_read_only(const std::string& path, const std::string& expected);
+
+/// Local. Runs `read`, which reads a file the user gave, and returns its result. An Error inside
+/// it (HDF5 failing on a damaged file, which can pass every structural check and fail later)
+/// becomes InputError "<expected>a damaged HDF5 file (<the error>)", so a bad file is bad input
+/// however deep the damage sits; an InputError passes unchanged. `expected` as for
+/// open_hdf5_read_only.
+template <typename Read>
+decltype(auto) read_input_file(const std::string& expected, Read&& read) {
+  try {
+    return read();
+  } catch (const InputError&) {
+    throw;
+  } catch (const Error& e) {
+    throw InputError(expected + "a damaged HDF5 file (" + one_line(e.what()) + ")");
+  }
+}
 
 /// Local. True if every group on the way to `object_path` ("/fields/u") and the object exist.
 bool has_object(hid_t file, const std::string& object_path);

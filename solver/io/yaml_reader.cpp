@@ -3,9 +3,12 @@
 // booleans and "1e3"-style integers; a case file should mean exactly what it says.
 #include "io/yaml_reader.hpp"
 
+#include <yaml-cpp/eventhandler.h>
+
 #include <charconv>
 #include <cmath>
 #include <limits>
+#include <sstream>
 #include <string_view>
 #include <system_error>
 
@@ -17,9 +20,11 @@ namespace {
 
 constexpr std::size_t max_shown = 60;  // longest rendering of a bad value in a message
 
+// Every ASCII control character as a space (vertical tab and form feed also break a terminal
+// line); UTF-8 text is kept.
 std::string one_line(std::string text) {
   for (char& c : text) {
-    if (c == '\n' || c == '\r' || c == '\t') c = ' ';
+    if (static_cast<unsigned char>(c) < 0x20 || c == 0x7f) c = ' ';
   }
   return text;
 }
@@ -28,6 +33,45 @@ std::string shorten(std::string text) {
   if (text.size() > max_shown) text = text.substr(0, max_shown - 3) + "...";
   return text;
 }
+
+// Counts the documents of a YAML stream (events of the parser, no nodes built), stopping after
+// the first empty one after the first, and keeps where the second document's content starts.
+class DocumentCounter : public YAML::EventHandler {
+ public:
+  int n_documents = 0;
+  bool saw_empty_document = false;
+  YAML::Mark second_start = YAML::Mark::null_mark();
+
+  void OnDocumentStart(const YAML::Mark&) override {
+    ++n_documents;
+    has_content_ = false;
+  }
+  void OnDocumentEnd() override {
+    if (!has_content_ && n_documents > 1) saw_empty_document = true;
+  }
+  void OnNull(const YAML::Mark&, YAML::anchor_t) override {}
+  void OnAlias(const YAML::Mark& mark, YAML::anchor_t) override { content(mark); }
+  void OnScalar(const YAML::Mark& mark, const std::string&, YAML::anchor_t, const std::string&) override {
+    content(mark);
+  }
+  void OnSequenceStart(const YAML::Mark& mark, const std::string&, YAML::anchor_t,
+                       YAML::EmitterStyle::value) override {
+    content(mark);
+  }
+  void OnSequenceEnd() override {}
+  void OnMapStart(const YAML::Mark& mark, const std::string&, YAML::anchor_t,
+                  YAML::EmitterStyle::value) override {
+    content(mark);
+  }
+  void OnMapEnd() override {}
+
+ private:
+  void content(const YAML::Mark& mark) {
+    if (n_documents == 2 && !has_content_) second_start = mark;
+    has_content_ = true;
+  }
+  bool has_content_ = false;
+};
 
 [[noreturn]] void throw_at(const std::string& source, int line, const std::string& key,
                            const std::string& expected, const std::string& got) {
@@ -224,21 +268,26 @@ std::string Section::child_key(const char* name) const {
 }
 
 Value parse_document(const std::string& text, const std::string& source) {
-  std::vector<YAML::Node> documents;
+  YAML::Node document;
+  DocumentCounter counter;
   try {
-    documents = YAML::LoadAll(text);
+    document = YAML::Load(text);
+    // Not YAML::LoadAll: in yaml-cpp 0.7 it never returns for some malformed text (e.g. one that
+    // starts with ','; jbeder/yaml-cpp#1319, fixed upstream in 2024), adding empty documents.
+    std::istringstream stream(text);
+    YAML::Parser parser(stream);
+    while (!counter.saw_empty_document && parser.HandleNextDocument(counter)) {
+    }
   } catch (const YAML::Exception& error) {
     throw_at(source, line_of(error.mark), "", "valid YAML", "a syntax error (" + error.msg + ")");
   }
-  if (documents.empty() || documents[0].IsNull()) {
-    throw_at(source, 0, "", "a mapping of top-level keys", "an empty document");
+  if (document.IsNull()) throw_at(source, 0, "", "a mapping of top-level keys", "an empty document");
+  if (counter.n_documents > 1) {
+    throw_at(source, line_of(counter.second_start), "", "a single YAML document",
+             std::to_string(counter.n_documents) + " documents");
   }
-  if (documents.size() > 1) {
-    throw_at(source, line_of(documents[1].Mark()), "", "a single YAML document",
-             std::to_string(documents.size()) + " documents");
-  }
-  const int line = line_of(documents[0].Mark());
-  return Value(source, documents[0], "", line > 0 ? line : 1);
+  const int line = line_of(document.Mark());
+  return Value(source, document, "", line > 0 ? line : 1);
 }
 
 }  // namespace wallrans::yaml_reader
