@@ -1,6 +1,8 @@
 // Classifies boundary faces by the coordinate of their centre along the side, or by their index.
 #include "grid/boundary.hpp"
 
+#include <string>
+
 #include "core/error.hpp"
 
 namespace wallrans {
@@ -96,6 +98,14 @@ BoundaryMap::BoundaryMap(const CaseSpec& spec, const NodeCoordinates& nodes)
         }
         on_side[k]->segment = static_cast<int>(s);
         ++covered;
+        if (seg.profile && !seg.profile->covers(mid[k])) {
+          throw InputError(
+              case_location(spec, seg.line) + ": key 'boundaries[" + std::to_string(s) +
+              "].profile_file': expected a profile covering every face of the segment on side '" +
+              to_string(side) + "', got rows from " + std::to_string(seg.profile->front()) + " to " +
+              std::to_string(seg.profile->back()) + " in " + seg.profile->file + " and a face at " +
+              (along_x ? "x = " : "y = ") + std::to_string(mid[k]));
+        }
       }
       if (covered == 0) {
         throw InputError(case_location(spec, seg.line) + ": " + key(s) +
