@@ -1,7 +1,9 @@
-// Profile tables along grid columns, with the wall row, gathered on rank 0.
+// Profile tables along grid columns, measured from the column's lowest boundary face, with the
+// wall row, gathered on rank 0.
 #include "io/profile_writer.hpp"
 
 #include <algorithm>
+#include <array>
 #include <cmath>
 #include <cstdio>
 #include <string>
@@ -11,6 +13,56 @@
 #include "io/gather.hpp"
 
 namespace wallrans {
+
+namespace {
+
+// The lower boundary face of a grid column: the block's bottom face, or where solid cells lie
+// below, the face on top of them.
+struct BottomFace {
+  Vec2 centre, a, b;
+  double shear_stress = 0.0;  // signed, as WallSample::shear_stress (0 if not a wall)
+  bool is_wall = false;       // a no-slip wall (a wall segment or a solid cell below)
+  Vec2 wall_velocity;
+};
+
+// Collective. The lowest bottom-side boundary face of column i over all ranks; false if the
+// column has none (every cell solid).
+bool bottom_face(const CaseSpec& spec, const FlowSolver& solver, int i, BottomFace& out) {
+  const BoundaryFace* lowest = nullptr;
+  for (const BoundaryFace& f : solver.boundary_faces())
+    if (f.side == Side::bottom && f.index == i && (!lowest || f.centre.y < lowest->centre.y)) lowest = &f;
+  std::array<double, 10> data{};
+  if (lowest) {
+    const BoundaryFace& f = *lowest;
+    // The faces next to solid cells form one extra wall segment at rest after the case's ones.
+    const bool is_case_segment = f.segment >= 0 && static_cast<size_t>(f.segment) < spec.boundaries.size();
+    const bool is_wall =
+        f.on_solid ||
+        (is_case_segment && spec.boundaries[static_cast<size_t>(f.segment)].kind == BoundaryKind::wall);
+    const Vec2 velocity =
+        is_wall && !f.on_solid ? spec.boundaries[static_cast<size_t>(f.segment)].velocity : Vec2{};
+    double tau = 0.0;
+    for (const WallSample& w : solver.wall_samples())
+      if (w.side == Side::bottom && w.index == i && w.on_solid == f.on_solid) tau = w.shear_stress;
+    data = {f.centre.x, f.centre.y,          f.a.x,      f.a.y,     f.b.x, f.b.y,
+            tau,        is_wall ? 1.0 : 0.0, velocity.x, velocity.y};
+  }
+  MPI_Comm comm = solver.grid().comm();
+  int rank = 0;
+  MPI_Comm_rank(comm, &rank);
+  struct {
+    double y;
+    int rank;
+  } mine{lowest ? lowest->centre.y : HUGE_VAL, rank}, best{};
+  MPI_Allreduce(&mine, &best, 1, MPI_DOUBLE_INT, MPI_MINLOC, comm);
+  if (best.y == HUGE_VAL) return false;
+  MPI_Bcast(data.data(), static_cast<int>(data.size()), MPI_DOUBLE, best.rank, comm);
+  out = {{data[0], data[1]}, {data[2], data[3]}, {data[4], data[5]}, data[6],
+         data[7] != 0.0,     {data[8], data[9]}};
+  return true;
+}
+
+}  // namespace
 
 void write_profiles(const CaseSpec& spec, const FlowSolver& solver, const TurbulenceModel& model,
                     const std::filesystem::path& directory, MPI_Comm comm) {
@@ -30,21 +82,16 @@ void write_profiles(const CaseSpec& spec, const FlowSolver& solver, const Turbul
     int column = -1;
     for (int i = 0; i < grid.cells_x(); ++i)
       if (grid.node(i, 0).x <= x && x < grid.node(i + 1, 0).x) column = i;
-    if (column < 0) {
+    BottomFace face;
+    if (column < 0 || !bottom_face(spec, solver, column, face)) {
       if (rank == 0)
-        std::printf("wallrans: warning: profile station x = %g is outside the grid; skipped\n", x);
+        std::printf("wallrans: warning: profile station x = %g is outside the grid or its fluid; skipped\n",
+                    x);
       continue;
     }
-    // The bottom face of the column and its shear stress (owned by one rank, summed over all).
-    const Vec2 a = grid.node(column, 0), b = grid.node(column + 1, 0);
-    const Vec2 face_centre = 0.5 * (a + b);
-    const Vec2 normal = (1.0 / norm(b - a)) * Vec2{-(b - a).y, (b - a).x};  // into the domain
-    double tau = 0.0;
-    for (const auto& w : solver.wall_samples())
-      if (!w.on_solid && w.side == Side::bottom && w.index == column) tau = w.shear_stress;
-    double tau_all = 0.0;
-    MPI_Allreduce(&tau, &tau_all, 1, MPI_DOUBLE, MPI_SUM, comm);
-    const double u_tau = std::sqrt(std::abs(tau_all));
+    const Vec2 normal =
+        (1.0 / norm(face.b - face.a)) * Vec2{-(face.b - face.a).y, (face.b - face.a).x};  // inwards
+    const double u_tau = std::sqrt(std::abs(face.shear_stress));
     const Vec2 tangent{normal.y, -normal.x};
     std::vector<std::vector<double>> rows;
     auto add_row = [&](Vec2 at, double y, Vec2 velocity, double nut, double variable_value) {
@@ -55,16 +102,12 @@ void write_profiles(const CaseSpec& spec, const FlowSolver& solver, const Turbul
       if (variable_field) row.push_back(variable_value);
       rows.push_back(std::move(row));
     };
-    for (const BoundaryFace& f : solver.boundary_faces()) {
-      if (f.on_solid || f.side != Side::bottom || f.index != column) continue;
-      if (f.segment < 0 || static_cast<size_t>(f.segment) >= spec.boundaries.size()) continue;
-      const BoundarySegmentSpec& segment = spec.boundaries[static_cast<size_t>(f.segment)];
-      if (segment.kind == BoundaryKind::wall) add_row(f.centre, 0.0, segment.velocity, 0.0, 0.0);
-    }
+    if (rank == 0 && face.is_wall) add_row(face.centre, 0.0, face.wall_velocity, 0.0, 0.0);
     if (column >= grid.x_begin() && column < grid.x_end()) {
       for (int j = grid.y_begin(); j < grid.y_end(); ++j) {
+        if (solver.solid()(column, j) != 0.0) continue;
         const Vec2 c = grid.centre(column, j);
-        add_row(c, dot(c - face_centre, normal), solver.velocity()(column, j),
+        add_row(c, dot(c - face.centre, normal), solver.velocity()(column, j),
                 solver.eddy_viscosity()(column, j), variable_field ? (*variable_field)(column, j) : 0.0);
       }
     }

@@ -21,6 +21,7 @@
 
 #include "coupling/nested_start.hpp"
 #include "io/case_loader.hpp"
+#include "io/csv_writer.hpp"
 #include "io/gather.hpp"
 #include "io/profile_reader.hpp"
 #include "io/profile_writer.hpp"
@@ -208,6 +209,21 @@ TEST(Step, CoarseStepWithPrecursorInflowReattachesAndBalancesMass) {
   // Round-off of one interpolation and one dot product: a few ulp of the values (u <= 1, |S| < 0.2).
   EXPECT_LE(grid.global_max(worst_flux), 1e-15);
   EXPECT_LE(grid.global_max(worst_nu_tilde), 1e-17);
+
+  // The step's own profile above the step (station x = -1 h of the config) starts at the step
+  // top, a wall on solid cells: the wall row at y = h, then only the 20 fluid cells above it.
+  ASSERT_EQ(step.output.profiles_at_x.front(), -1.0);
+  const fs::path step_tables = scratch.path() / "step";
+  if (is_root()) fs::create_directories(step_tables);
+  MPI_Barrier(MPI_COMM_WORLD);
+  write_profiles(step, solver, *run.model, step_tables, MPI_COMM_WORLD);
+  MPI_Barrier(MPI_COMM_WORLD);
+  const CsvTable above = read_csv((step_tables / "profile_0.csv").string());
+  ASSERT_EQ(above.rows.size(), 21u);
+  EXPECT_EQ(above.rows[0][1], 1.0);  // y of the wall row
+  EXPECT_EQ(above.rows[0][2], 0.0);  // its wall distance
+  for (size_t r = 1; r < above.rows.size(); ++r) EXPECT_NEAR(above.rows[r][2], above.rows[r][1] - 1.0, 1e-12);
+  EXPECT_GT(above.rows[1][3], 0.0) << "y+ needs the shear of the step top";
 
   // 5. Mass balance at convergence: the net flux out of the domain, the sum of every cell's
   // imbalance, within 1e-10 of the through-flow (the bound).
