@@ -5,7 +5,9 @@ Plots Cf = 2 tau_w / U_ref^2 (the wall.csv column cf) on the wall below the step
 against x / step height (the step cases of configs/ have step height 1 m at x = 0), one line per
 run, with the reattachment points (sign changes of the wall shear, linear interpolation between
 face centres as in solver/coupling/wall_shear_zeros). Writes a PNG; needs Debian's matplotlib.
+With --table, also prints a Markdown table of Cf at the given x/h (linear between face centres).
 Usage: tools/plot_step_cf.py OUT.png LABEL=RUN_DIR [LABEL=RUN_DIR ...] [--reference X_R:LABEL ...]
+       [--table 1,2,4,6,8]
 """
 import argparse
 import csv
@@ -26,6 +28,14 @@ def bottom_wall(path):
     return sorted(faces)
 
 
+def interpolate(faces, x):
+    """Cf at x, linear between the two face centres around it."""
+    for (x0, c0, _), (x1, c1, _) in zip(faces, faces[1:]):
+        if x0 <= x <= x1:
+            return c0 + (c1 - c0) * (x - x0) / (x1 - x0)
+    return float("nan")
+
+
 def reattachments(faces):
     """Positions where the wall shear turns from negative to positive."""
     out = []
@@ -43,7 +53,10 @@ def main():
                         help="X_R:LABEL, a reference reattachment length drawn as a vertical line")
     parser.add_argument("--title", default="")
     parser.add_argument("--xmax", type=float, default=20.0)
+    parser.add_argument("--table", default="", help="comma-separated x/h stations for a Cf table")
     args = parser.parse_args()
+    stations = [float(x) for x in args.table.split(",")] if args.table else []
+    table = []
     fig, ax = plt.subplots(figsize=(8, 4.2))
     for run in args.runs:
         label, _, directory = run.partition("=")
@@ -51,6 +64,7 @@ def main():
         if not faces:
             sys.exit(f"{directory}/wall.csv: no bottom-wall faces downstream of the step")
         xr = reattachments(faces)
+        table.append((label, [interpolate(faces, x) for x in stations], xr))
         line, = ax.plot([f[0] for f in faces], [f[1] for f in faces], label=label, lw=1.2)
         if xr:
             ax.plot([xr[-1]], [0.0], "o", color=line.get_color(), ms=4)
@@ -68,6 +82,15 @@ def main():
     ax.grid(alpha=0.3)
     fig.tight_layout()
     fig.savefig(args.png, dpi=120)
+    if stations:
+        print("| run | " + " | ".join(f"Cf at x/h = {x:g}" for x in stations) + " | min Cf (x/h) | x_r/h |")
+        print("|---" * (len(stations) + 3) + "|")
+        for (label, values, xr), run in zip(table, args.runs):
+            faces = bottom_wall(run.partition("=")[2] + "/wall.csv")
+            low = min(faces, key=lambda f: f[1])
+            cells = " | ".join(f"{v:.2e}" for v in values)
+            print(f"| {label} | {cells} | {low[1]:.2e} ({low[0]:.2f}) | {xr[-1]:.3f} |" if xr else
+                  f"| {label} | {cells} | {low[1]:.2e} ({low[0]:.2f}) | none |")
 
 
 if __name__ == "__main__":

@@ -686,10 +686,10 @@ CaseSpec parse_case_text(const std::string& text, const std::string& source_name
                                     spec.flow, spec.grid, spec.periodic, periodic ? periodic->line() : 0);
   if (const auto solid = top.find("solid_regions"))
     spec.solid_regions = read_solid_regions(*solid, spec.grid);
-  // The step generator's solid corner comes first, so the case file's regions keep their numbers
-  // after it in messages; it is not written back (the generator adds it again).
+  // The step generator's solid corner comes after the case file's regions, which keep their
+  // numbers in messages; it is not written back (the generator adds it again).
   if (spec.grid.file.empty() && spec.grid.generator == GridGenerator::step)
-    spec.solid_regions.insert(spec.solid_regions.begin(), step_solid_region(spec.grid));
+    spec.solid_regions.push_back(step_solid_region(spec.grid));
   if (const auto turbulence = top.find("turbulence")) spec.turbulence = read_turbulence(*turbulence);
   read_profile_tables(spec);
   if (const auto iterations = top.find("iterations")) spec.iterations = read_iterations(*iterations);

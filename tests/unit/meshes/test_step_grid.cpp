@@ -10,6 +10,7 @@
 
 #include "core/error.hpp"
 #include "coupling/nested_start.hpp"
+#include "grid/boundary.hpp"
 #include "grid/solid_cells.hpp"
 #include "io/case_loader.hpp"
 #include "meshes/node_coordinates.hpp"
@@ -132,6 +133,23 @@ TEST(StepGrid, SolidCornerIsExactlyTheCellsBelowAndUpstreamOfTheCorner) {
       for (int i = 0; i < nodes.cells_x; ++i)
         EXPECT_EQ(solid.is_solid(i, j), i < up && j < low) << i << " " << j;
     nodes = coarsen(nodes, true, true);
+  }
+}
+
+TEST(StepGrid, InflowOnTheStepFaceIsRefusedAtTheSegmentsLine) {
+  // A common slip: an inflow over the whole left side, step face included.
+  std::string text = step_case;
+  const std::string segment = "{side: left, from: 1.0, kind: inflow";
+  text.replace(text.find(segment), segment.size(), "{side: left, kind: inflow");
+  const CaseSpec spec = parse_case_text(text, "step.yaml");
+  try {
+    BoundaryMap map(spec, generate_nodes(spec.grid));
+    ADD_FAILURE() << "accepted an inflow on the step face";
+  } catch (const InputError& e) {
+    EXPECT_EQ(
+        std::string(e.what()).rfind("step.yaml:15: key 'boundaries[0]': expected no face of the step", 0), 0u)
+        << e.what();
+    EXPECT_NE(std::string(e.what()).find("(give the segment from: 1.000000)"), std::string::npos) << e.what();
   }
 }
 
