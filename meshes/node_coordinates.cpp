@@ -5,8 +5,10 @@
 #include <cstdio>
 #include <numbers>
 #include <string>
+#include <utility>
 
 #include "core/error.hpp"
+#include "meshes/step_grid.hpp"
 
 namespace wallrans {
 
@@ -118,6 +120,12 @@ NodeCoordinates generate_nodes(const GridSpec& spec) {
       xs = uniform(nx, spec.length);
       ys = uniform(ny, spec.height);
       break;
+    case GridGenerator::step: {
+      GridLines lines = step_grid_lines(spec);
+      xs = std::move(lines.x);
+      ys = std::move(lines.y);
+      break;
+    }
   }
   for (int j = 0; j <= ny; ++j) {
     for (int i = 0; i <= nx; ++i) out.at(i, j) = {xs[i], ys[j]};

@@ -45,12 +45,12 @@ ScalarTransport::ScalarTransport(const Grid& grid, const BoundaryMap& boundaries
   options_->use("turbulence-model solver", [this] { return KSPSetFromOptions(ksp_.get()); });
 }
 
-void ScalarTransport::boundary_values(const MeanFlowView& flow, const Field& phi, double wall_value,
-                                      double freestream) {
+void ScalarTransport::boundary_values(const MeanFlowView& flow, const Field& phi,
+                                      const ScalarBoundaryValues& values) {
   for (size_t k = 0; k < flow.boundary_faces.size(); ++k) {
     const BoundaryFace& f = flow.boundary_faces[k];
     const BoundaryCondition& bc = flow.conditions.of(f);
-    double value = bc.scalar_value(phi(f.i, f.j), flow.boundary_flux[k], {wall_value, freestream});
+    double value = bc.scalar_value(f, phi(f.i, f.j), flow.boundary_flux[k], values);
     if (boundary_function_ && bc.is_prescribed()) value = boundary_function_(f.centre);
     phi_b_[k] = value;
   }
@@ -59,7 +59,7 @@ void ScalarTransport::boundary_values(const MeanFlowView& flow, const Field& phi
 void ScalarTransport::gradient_of(const Field& phi, double wall_value, const MeanFlowView& flow,
                                   VectorField& out) {
   boundary_function_ = nullptr;
-  boundary_values(flow, phi, wall_value, 0.0);
+  boundary_values(flow, phi, {wall_value, 0.0, false});
   lsq_->compute(phi, phi_b_, out);
   out.exchange();
 }
@@ -96,7 +96,7 @@ double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
   Field& phi = *eq.phi;
   const Field& gamma = *eq.gamma;
   boundary_function_ = eq.boundary_value;
-  boundary_values(flow, phi, eq.wall_value, eq.freestream_value);
+  boundary_values(flow, phi, {eq.wall_value, eq.freestream_value});
   lsq_->compute(phi, phi_b_, grad_);
   grad_.exchange();
 

@@ -66,7 +66,7 @@ class ScalarTransport {
   struct FaceTerms {
     double diffusion, explicit_left;
   };
-  void boundary_values(const MeanFlowView& flow, const Field& phi, double wall_value, double freestream);
+  void boundary_values(const MeanFlowView& flow, const Field& phi, const ScalarBoundaryValues& values);
   void compute_face_terms(const MeanFlowView& flow, const ScalarEquation& equation);
   const Grid& grid_;
   ConvectionScheme scheme_;

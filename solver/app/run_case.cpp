@@ -16,7 +16,6 @@
 #include "app/checkpointing.hpp"
 #include "app/divergence.hpp"
 #include "app/petsc_option_checks.hpp"
-#include "app/profiles.hpp"
 #include "app/resource_guard.hpp"
 #include "app/run_directory.hpp"
 #include "app/run_summary.hpp"
@@ -37,6 +36,7 @@
 #include "io/gather.hpp"
 #include "io/grid_file.hpp"
 #include "io/grid_file_case.hpp"
+#include "io/profile_writer.hpp"
 #include "io/rank_agreement.hpp"
 #include "io/vtk_writer.hpp"
 #include "models/model_factory.hpp"
@@ -375,7 +375,7 @@ void Run::write_outputs() {
       for (const auto& row : all) wall.row(row);
     }
   }
-  write_profiles(spec_, solver_, dir_, comm_);
+  write_profiles(spec_, solver_, model_, dir_, comm_);
 }
 
 void Run::finish(RunStatus status, const std::string& detail) {

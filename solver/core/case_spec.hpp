@@ -7,6 +7,7 @@
 #include <string>
 #include <vector>
 
+#include "core/inflow_profile.hpp"
 #include "core/vec2.hpp"
 
 namespace wallrans {
@@ -30,7 +31,7 @@ struct FlowSpec {
   Vec2 initial_velocity{0.0, 0.0};   ///< initial interior velocity [m/s]
 };
 
-enum class GridGenerator { channel, cavity, plate, skewed_box };
+enum class GridGenerator { channel, cavity, plate, skewed_box, step };
 
 struct GridSpec {
   /// Grid file in our HDF5 layout (docs/grid-file.md), an absolute path; "" = a generated grid.
@@ -48,6 +49,14 @@ struct GridSpec {
   int run_up_cells = 0;                        ///< plate: cells in the run-up (included in cells_x)
   std::optional<double> leading_edge_spacing;  ///< plate: x spacing at the leading edge [m]
   double skew_amplitude = 0.0;                 ///< skewed_box: node displacement / box size
+  /// step: a backward-facing step at x = 0 of height step_height in a channel of `height` (the
+  /// outlet); the inlet channel spans y in [step_height, height], x in [-upstream_length, 0].
+  double step_height = 0.0;
+  double upstream_length = 0.0;
+  int upstream_cells = 0;                 ///< step: cells in x upstream of x = 0 (within cells_x)
+  int step_cells = 0;                     ///< step: cells in y below y = step_height (within cells_y)
+  std::optional<double> corner_spacing;   ///< step: x spacing on both sides of x = 0 [m]
+  std::optional<double> top_cell_height;  ///< step: first cell height at the top (default first_cell_height)
   int line = 0;                                ///< case-file line of the grid section (messages)
 };
 
@@ -63,6 +72,8 @@ struct BoundarySegmentSpec {
   /// left/right); absent = as from/to say.
   std::optional<std::array<int, 2>> faces;
   std::string patch;  ///< grid-file patch the segment covers instead of a side ("" = by side)
+  /// inflow only: velocity and model variable from a table instead of `velocity`.
+  std::optional<InflowProfile> profile;
 };
 
 /// A block of cells taken out of the flow (blanked). A cell is in the region when its indices lie
@@ -73,6 +84,7 @@ struct SolidRegionSpec {
   std::optional<std::array<int, 2>> i, j;     ///< cell index ranges [first, last], inclusive, from 0
   std::optional<std::array<double, 2>> x, y;  ///< coordinate ranges [min, max] of the cell centre [m]
   int line = 0;                               ///< source line in the case file, for messages
+  bool from_generator = false;  ///< added by the grid generator (the step's corner), not the case file
 };
 
 enum class PeriodicAxis { none, x };

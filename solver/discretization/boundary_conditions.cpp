@@ -2,6 +2,7 @@
 #include "discretization/boundary_conditions.hpp"
 
 #include <algorithm>
+#include <optional>
 
 namespace wallrans {
 
@@ -43,20 +44,35 @@ class Wall final : public PrescribedVelocity {
   void add_momentum(const MomentumFaceInput& in, MomentumRow& row) const override {
     add_prescribed_velocity(in, in.nu, row);
   }
-  double scalar_value(double, double, const ScalarBoundaryValues& values) const override {
+  double scalar_value(const BoundaryFace&, double, double,
+                      const ScalarBoundaryValues& values) const override {
     return values.wall;
   }
 };
 
+// A uniform inflow, or one whose velocity and model variable come from a profile along the side.
 class Inflow final : public PrescribedVelocity {
  public:
-  using PrescribedVelocity::PrescribedVelocity;
+  Inflow(Vec2 velocity, const std::optional<InflowProfile>& profile)
+      : PrescribedVelocity(velocity), profile_(profile) {}
+  Vec2 face_velocity(const BoundaryFace& face, Vec2 cell_velocity, double outward_flux) const override {
+    if (!profile_) return PrescribedVelocity::face_velocity(face, cell_velocity, outward_flux);
+    return profile_->at(along_side(face)).velocity;
+  }
   void add_momentum(const MomentumFaceInput& in, MomentumRow& row) const override {
     add_prescribed_velocity(in, in.nu_cell, row);
   }
-  double scalar_value(double, double, const ScalarBoundaryValues& values) const override {
-    return values.freestream;
+  double scalar_value(const BoundaryFace& face, double, double,
+                      const ScalarBoundaryValues& values) const override {
+    if (!profile_ || !values.is_model_variable) return values.freestream;
+    return profile_->at(along_side(face)).model_variable;
   }
+
+ private:
+  static double along_side(const BoundaryFace& face) {
+    return face.side == Side::left || face.side == Side::right ? face.centre.y : face.centre.x;
+  }
+  std::optional<InflowProfile> profile_;
 };
 
 // Fixed static pressure; the flux comes from Rhie-Chow with the boundary pressure. Leaving flow
@@ -89,7 +105,8 @@ class Outflow final : public FixedPressure {
   using FixedPressure::FixedPressure;
   Vec2 face_velocity(const BoundaryFace&, Vec2 cell_velocity, double) const override { return cell_velocity; }
   bool scalar_is_prescribed(double) const override { return false; }
-  double scalar_value(double cell_value, double, const ScalarBoundaryValues&) const override {
+  double scalar_value(const BoundaryFace&, double cell_value, double,
+                      const ScalarBoundaryValues&) const override {
     return cell_value;
   }
 
@@ -105,7 +122,7 @@ class Opening final : public FixedPressure {
     return outward_flux < 0.0 ? velocity_ : cell_velocity;
   }
   bool scalar_is_prescribed(double outward_flux) const override { return outward_flux < 0.0; }
-  double scalar_value(double cell_value, double outward_flux,
+  double scalar_value(const BoundaryFace&, double cell_value, double outward_flux,
                       const ScalarBoundaryValues& values) const override {
     return outward_flux < 0.0 ? values.freestream : cell_value;
   }
@@ -135,7 +152,8 @@ class Slip final : public BoundaryCondition {
     row.rhs_v += c * in.face_velocity.y;
   }
   bool scalar_is_prescribed(double) const override { return false; }
-  double scalar_value(double cell_value, double, const ScalarBoundaryValues&) const override {
+  double scalar_value(const BoundaryFace&, double cell_value, double,
+                      const ScalarBoundaryValues&) const override {
     return cell_value;
   }
 };
@@ -149,7 +167,7 @@ std::unique_ptr<BoundaryCondition> make_boundary_condition(const BoundarySegment
     case BoundaryKind::wall:
       return std::make_unique<Wall>(segment.velocity);
     case BoundaryKind::inflow:
-      return std::make_unique<Inflow>(segment.velocity);
+      return std::make_unique<Inflow>(segment.velocity, segment.profile);
     case BoundaryKind::outflow:
       return std::make_unique<Outflow>(pressure);
     case BoundaryKind::slip:

@@ -48,6 +48,9 @@ struct MomentumRow {
 struct ScalarBoundaryValues {
   double wall;        ///< at no-slip walls
   double freestream;  ///< carried in through inflows and openings
+  /// True for the model's transported variable, which an inflow profile prescribes; false for
+  /// other fields (e.g. the gradient of nu_t), which take `freestream` there.
+  bool is_model_variable = true;
 };
 
 class BoundaryCondition {
@@ -69,13 +72,16 @@ class BoundaryCondition {
   /// True if a model variable has a prescribed value at the face for this outward flux (else its
   /// normal gradient is zero).
   virtual bool scalar_is_prescribed(double outward_flux) const = 0;
-  /// The face value of a model variable: the prescribed value or, with zero gradient, the cell's.
-  virtual double scalar_value(double cell_value, double outward_flux,
+  /// Local. The face value of a model variable: the prescribed value or, with zero gradient, the
+  /// cell's.
+  virtual double scalar_value(const BoundaryFace& face, double cell_value, double outward_flux,
                               const ScalarBoundaryValues& values) const = 0;
 };
 
 /// Local. The condition of one segment. `reference_pressure` is the pressure of fixed-pressure
-/// kinds whose segment gives none.
+/// kinds whose segment gives none. An inflow segment with a profile takes the velocity and the
+/// model variable of each face from it, at the face centre's coordinate along the side (the
+/// boundary map has checked that the profile covers every face of the segment).
 std::unique_ptr<BoundaryCondition> make_boundary_condition(const BoundarySegmentSpec& segment,
                                                            double reference_pressure);
 

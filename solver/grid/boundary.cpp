@@ -1,6 +1,8 @@
 // Classifies boundary faces by the coordinate of their centre along the side, or by their index.
 #include "grid/boundary.hpp"
 
+#include <string>
+
 #include "core/error.hpp"
 
 namespace wallrans {
@@ -96,6 +98,14 @@ BoundaryMap::BoundaryMap(const CaseSpec& spec, const NodeCoordinates& nodes)
         }
         on_side[k]->segment = static_cast<int>(s);
         ++covered;
+        if (seg.profile && !seg.profile->covers(mid[k])) {
+          throw InputError(
+              case_location(spec, seg.line) + ": key 'boundaries[" + std::to_string(s) +
+              "].profile_file': expected a profile covering every face of the segment on side '" +
+              to_string(side) + "', got rows from " + std::to_string(seg.profile->front()) + " to " +
+              std::to_string(seg.profile->back()) + " in " + seg.profile->file + " and a face at " +
+              (along_x ? "x = " : "y = ") + std::to_string(mid[k]));
+        }
       }
       if (covered == 0) {
         throw InputError(case_location(spec, seg.line) + ": " + key(s) +
@@ -116,6 +126,14 @@ BoundaryMap::BoundaryMap(const CaseSpec& spec, const NodeCoordinates& nodes)
       }
       if (region >= 0 && f.segment >= 0 && is_flow_through(segments_[f.segment].kind)) {
         const BoundarySegmentSpec& seg = segments_[f.segment];
+        if (spec.solid_regions[region].from_generator) {
+          throw InputError(
+              case_location(spec, seg.line) + ": key 'boundaries[" + std::to_string(f.segment) +
+              "]': expected no face of the step (the generator's solid corner below y = " +
+              std::to_string(spec.grid.step_height) + " and left of x = 0) in an " + to_string(seg.kind) +
+              " segment, got the face at " + (along_x ? "x = " : "y = ") + std::to_string(mid[k]) +
+              " (give the segment from: " + std::to_string(along_x ? 0.0 : spec.grid.step_height) + ")");
+        }
         throw InputError(case_location(spec, spec.solid_regions[region].line) + ": key 'solid_regions[" +
                          std::to_string(region) + "]': expected no solid cell at a face of an " +
                          to_string(seg.kind) + " segment, got cell (" + std::to_string(f.i) + ", " +

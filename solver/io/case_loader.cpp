@@ -16,7 +16,9 @@
 #include <vector>
 
 #include "core/error.hpp"
+#include "io/profile_reader.hpp"
 #include "io/yaml_reader.hpp"
+#include "meshes/step_grid.hpp"
 
 namespace wallrans {
 
@@ -27,7 +29,7 @@ using yaml_reader::Section;
 using yaml_reader::Value;
 
 constexpr std::array all_generators{GridGenerator::channel, GridGenerator::cavity, GridGenerator::plate,
-                                    GridGenerator::skewed_box};
+                                    GridGenerator::skewed_box, GridGenerator::step};
 constexpr std::array all_sides{Side::left, Side::right, Side::bottom, Side::top};
 constexpr std::array all_kinds{BoundaryKind::wall, BoundaryKind::inflow, BoundaryKind::outflow,
                                BoundaryKind::slip, BoundaryKind::opening};
@@ -63,6 +65,8 @@ const char* name_of(GridGenerator generator) {
       return "plate";
     case GridGenerator::skewed_box:
       return "skewed_box";
+    case GridGenerator::step:
+      return "step";
   }
   return "?";
 }
@@ -153,6 +157,27 @@ void reject_foreign_keys(const Section& section, const GridSpec& grid, GridGener
   }
 }
 
+void read_step_keys(const Section& section, GridSpec& grid) {
+  const std::string nx = std::to_string(grid.cells_x), ny = std::to_string(grid.cells_y);
+  grid.step_height = section.require("step_height", "a number in (0, height)")
+                         .number("a number in (0, height) = (0, " + number_text(grid.height) + ")",
+                                 [&](double h) { return h > 0.0 && h < grid.height; });
+  grid.upstream_length =
+      section.require("upstream_length", positive_number).number(positive_number, is_positive);
+  grid.upstream_cells = section.require("upstream_cells", "an integer in [1, cells_x)")
+                            .integer("an integer in [1, cells_x) = [1, " + nx + ")",
+                                     [&](int n) { return n >= 1 && n < grid.cells_x; });
+  grid.step_cells = section.require("step_cells", "an integer in [1, cells_y)")
+                        .integer("an integer in [1, cells_y) = [1, " + ny + ")",
+                                 [&](int n) { return n >= 1 && n < grid.cells_y; });
+  if (const auto spacing = section.find("corner_spacing"))
+    grid.corner_spacing = spacing->number(positive_number, is_positive);
+  if (const auto top = section.find("top_cell_height")) {
+    if (!grid.first_cell_height) top->fail("no top_cell_height without grid.first_cell_height");
+    grid.top_cell_height = top->number(positive_number, is_positive);
+  }
+}
+
 void read_plate_keys(const Section& section, GridSpec& grid) {
   const std::string n = std::to_string(grid.cells_x);
   grid.run_up = number_or(section, "run_up", grid.run_up, "a number >= 0", is_non_negative);
@@ -173,11 +198,12 @@ void read_plate_keys(const Section& section, GridSpec& grid) {
   }
 }
 
-// A grid file named relative to the case file's folder, made absolute so the resolved case in a
-// run directory still finds it.
-std::string grid_file_path(const Value& file) {
-  const std::filesystem::path given = file.text("a non-empty path of a grid file");
-  if (given.empty()) file.fail("a non-empty path of a grid file");
+// A file named relative to the case file's folder, made absolute so the resolved case in a run
+// directory still finds it. `what` names the file's kind for the message.
+std::string path_from_case(const Value& file, const std::string& what) {
+  const std::string expected = "a non-empty path of " + what;
+  const std::filesystem::path given = file.text(expected);
+  if (given.empty()) file.fail(expected);
   if (given.is_absolute()) return given.lexically_normal().string();
   std::error_code ignored;
   const auto absolute =
@@ -188,16 +214,19 @@ std::string grid_file_path(const Value& file) {
 GridSpec read_grid(const Value& value) {
   const Section section =
       value.section({"file", "generator", "cells", "length", "height", "first_cell_height", "run_up",
-                     "run_up_cells", "leading_edge_spacing", "skew_amplitude"});
+                     "run_up_cells", "leading_edge_spacing", "skew_amplitude", "step_height",
+                     "upstream_length", "upstream_cells", "step_cells", "corner_spacing", "top_cell_height"});
   GridSpec grid;
   grid.line = value.line();
   if (const auto file = section.find("file")) {
     // The file gives the nodes; a generator key next to it would be silently ignored.
-    for (const char* key : {"generator", "cells", "length", "height", "first_cell_height", "run_up",
-                            "run_up_cells", "leading_edge_spacing", "skew_amplitude"}) {
+    for (const char* key :
+         {"generator", "cells", "length", "height", "first_cell_height", "run_up", "run_up_cells",
+          "leading_edge_spacing", "skew_amplitude", "step_height", "upstream_length", "upstream_cells",
+          "step_cells", "corner_spacing", "top_cell_height"}) {
       if (const auto other = section.find(key)) other->fail("no generator key next to grid.file", "a value");
     }
-    grid.file = grid_file_path(*file);
+    grid.file = path_from_case(*file, "a grid file");
     return grid;
   }
   grid.generator =
@@ -216,7 +245,11 @@ GridSpec read_grid(const Value& value) {
   reject_foreign_keys(section, grid, GridGenerator::plate,
                       {"run_up", "run_up_cells", "leading_edge_spacing"});
   reject_foreign_keys(section, grid, GridGenerator::skewed_box, {"skew_amplitude"});
+  reject_foreign_keys(section, grid, GridGenerator::step,
+                      {"step_height", "upstream_length", "upstream_cells", "step_cells", "corner_spacing",
+                       "top_cell_height"});
   if (grid.generator == GridGenerator::plate) read_plate_keys(section, grid);
+  if (grid.generator == GridGenerator::step) read_step_keys(section, grid);
   grid.skew_amplitude = number_or(section, "skew_amplitude", grid.skew_amplitude, "a number in [0, 0.2)",
                                   [](double a) { return a >= 0.0 && a < 0.2; });
   return grid;
@@ -296,20 +329,36 @@ void read_segment_place(const Section& section, const GridSpec& grid, BoundarySe
 
 BoundarySegmentSpec read_segment(const Value& entry, const FlowSpec& flow, const GridSpec& grid,
                                  const PeriodicSpec& periodic, int periodic_line) {
-  const Section section =
-      entry.section({"side", "patch", "kind", "from", "to", "faces", "velocity", "pressure"});
+  const Section section = entry.section({"side", "patch", "kind", "from", "to", "faces", "velocity",
+                                         "pressure", "profile_file", "profile_shift"});
   BoundarySegmentSpec segment;
   segment.line = entry.line();
   read_segment_place(section, grid, segment);
   segment.kind = read_kind(section.require("kind", one_of(all_kinds)));
   const std::string kind = name_of(segment.kind);
+  if (const auto file = section.find("profile_file")) {
+    // The table replaces the velocity; its coordinate runs along the side (read after the model).
+    if (segment.kind != BoundaryKind::inflow)
+      file->fail("no profile_file for kind '" + kind + "' (only inflow)");
+    if (!segment.patch.empty())
+      file->fail("profile_file with side (its coordinate runs along a side), not patch");
+    if (const auto velocity = section.find("velocity"))
+      velocity->fail("no velocity next to profile_file (the profile gives it)");
+    InflowProfile profile;
+    profile.file = path_from_case(*file, "a profile file (CSV)");
+    profile.coordinate_column = segment.side == Side::left || segment.side == Side::right ? "y" : "x";
+    if (const auto shift = section.find("profile_shift")) profile.shift = shift->number(any_number);
+    segment.profile = std::move(profile);
+  } else if (const auto shift = section.find("profile_shift")) {
+    shift->fail("no profile_shift without profile_file");
+  }
   if (const auto velocity = section.find("velocity")) {
     if (!takes_velocity(segment.kind)) {
       velocity->fail("no velocity for kind '" + kind + "' (only wall, inflow and opening take one)");
     }
     segment.velocity = velocity->vec2(velocity_pair);
-  } else if (segment.kind == BoundaryKind::inflow) {
-    section.missing("velocity", velocity_pair + " for kind 'inflow'");
+  } else if (segment.kind == BoundaryKind::inflow && !segment.profile) {
+    section.missing("velocity", velocity_pair + " or profile_file for kind 'inflow'");
   }
   if (const auto pressure = section.find("pressure")) {
     if (!takes_pressure(segment.kind)) {
@@ -543,13 +592,25 @@ void put_grid(YAML::Emitter& out, const GridSpec& grid) {
     if (grid.leading_edge_spacing) put(out, "leading_edge_spacing", *grid.leading_edge_spacing);
   }
   if (grid.generator == GridGenerator::skewed_box) put(out, "skew_amplitude", grid.skew_amplitude);
+  if (grid.generator == GridGenerator::step) {
+    put(out, "step_height", grid.step_height);
+    put(out, "upstream_length", grid.upstream_length);
+    put(out, "upstream_cells", grid.upstream_cells);
+    put(out, "step_cells", grid.step_cells);
+    if (grid.corner_spacing) put(out, "corner_spacing", *grid.corner_spacing);
+    if (grid.top_cell_height) put(out, "top_cell_height", *grid.top_cell_height);
+  }
   out << YAML::EndMap;
 }
 
 void put_solid_regions(YAML::Emitter& out, const std::vector<SolidRegionSpec>& regions) {
-  if (regions.empty()) return;
+  std::vector<const SolidRegionSpec*> written;
+  for (const auto& region : regions)
+    if (!region.from_generator) written.push_back(&region);
+  if (written.empty()) return;
   out << YAML::Key << "solid_regions" << YAML::Value << YAML::BeginSeq;
-  for (const auto& region : regions) {
+  for (const SolidRegionSpec* given : written) {
+    const SolidRegionSpec& region = *given;
     out << YAML::Flow << YAML::BeginMap;
     for (const auto& [key, range] : {std::pair{"i", region.i}, std::pair{"j", region.j}}) {
       if (range)
@@ -580,11 +641,33 @@ void put_boundaries(YAML::Emitter& out, const std::vector<BoundarySegmentSpec>& 
       out << YAML::Key << "faces" << YAML::Value << YAML::Flow << YAML::BeginSeq << (*segment.faces)[0]
           << (*segment.faces)[1] << YAML::EndSeq;
     }
-    if (takes_velocity(segment.kind)) put(out, "velocity", segment.velocity);
+    if (segment.profile) {
+      put_text(out, "profile_file", segment.profile->file);
+      put(out, "profile_shift", segment.profile->shift);
+    } else if (takes_velocity(segment.kind)) {
+      put(out, "velocity", segment.velocity);
+    }
     if (segment.pressure) put(out, "pressure", *segment.pressure);
     out << YAML::EndMap;
   }
   out << YAML::EndSeq;
+}
+
+// Reads the table of every inflow segment with a profile_file, now that the model (and so the
+// column of its variable) is known. Messages name the case file and the segment's line.
+void read_profile_tables(CaseSpec& spec) {
+  const std::string variable = model_variable_column(spec.turbulence.model);
+  for (size_t s = 0; s < spec.boundaries.size(); ++s) {
+    BoundarySegmentSpec& segment = spec.boundaries[s];
+    if (!segment.profile) continue;
+    try {
+      segment.profile = read_inflow_profile(segment.profile->file, segment.profile->coordinate_column,
+                                            variable, spec.turbulence.model, segment.profile->shift);
+    } catch (const InputError& e) {
+      throw InputError(spec.source_file + ":" + std::to_string(segment.line) + ": key 'boundaries[" +
+                       std::to_string(s) + "].profile_file': " + e.what());
+    }
+  }
 }
 
 }  // namespace
@@ -605,7 +688,12 @@ CaseSpec parse_case_text(const std::string& text, const std::string& source_name
                                     spec.flow, spec.grid, spec.periodic, periodic ? periodic->line() : 0);
   if (const auto solid = top.find("solid_regions"))
     spec.solid_regions = read_solid_regions(*solid, spec.grid);
+  // The step generator's solid corner comes after the case file's regions, which keep their
+  // numbers in messages; it is not written back (the generator adds it again).
+  if (spec.grid.file.empty() && spec.grid.generator == GridGenerator::step)
+    spec.solid_regions.push_back(step_solid_region(spec.grid));
   if (const auto turbulence = top.find("turbulence")) spec.turbulence = read_turbulence(*turbulence);
+  read_profile_tables(spec);
   if (const auto iterations = top.find("iterations")) spec.iterations = read_iterations(*iterations);
   if (const auto output = top.find("output")) spec.output = read_output(*output);
   if (const auto checkpoint = top.find("checkpoint")) spec.checkpoint = read_checkpoint(*checkpoint);

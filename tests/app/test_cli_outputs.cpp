@@ -359,6 +359,10 @@ TEST(TurbulentRun, WritesModelFieldsWallYplusAndProfiles) {
   for (const auto& row : wall.rows) EXPECT_GT(row[yp], 0.0);
   const auto profile = wallrans::read_csv((out / "profile_0.csv").string());
   EXPECT_EQ(profile.columns, (std::vector<std::string>{"x", "y", "wall_distance", "y_plus", "u_tangential",
-                                                       "u_plus", "nut_over_nu"}));
-  EXPECT_EQ(profile.rows.size(), 128u);
+                                                       "u_plus", "nut_over_nu", "u", "v", "nu_tilde"}));
+  // The bottom wall face, then the 128 cells of the column.
+  ASSERT_EQ(profile.rows.size(), 129u);
+  EXPECT_EQ(profile.rows[0][2], 0.0);  // wall distance of the wall row
+  EXPECT_EQ(profile.rows[0][7], 0.0);  // u at the wall at rest
+  EXPECT_EQ(profile.rows[0][9], 0.0);  // nu_tilde at the wall (Spalart & Allmaras 1994)
 }

@@ -31,10 +31,10 @@ CaseSpec developing_channel() {
   spec.grid.length = 2.0;
   spec.grid.height = 0.5;
   spec.grid.first_cell_height = 0.01;
-  spec.boundaries = {{Side::left, {}, {}, BoundaryKind::inflow, {1.0, 0.0}, {}, 1, {}, {}},
-                     {Side::right, {}, {}, BoundaryKind::outflow, {}, {}, 2, {}, {}},
-                     {Side::bottom, {}, {}, BoundaryKind::wall, {}, {}, 3, {}, {}},
-                     {Side::top, {}, {}, BoundaryKind::wall, {}, {}, 4, {}, {}}};
+  spec.boundaries = {{Side::left, {}, {}, BoundaryKind::inflow, {1.0, 0.0}, {}, 1, {}, {}, {}},
+                     {Side::right, {}, {}, BoundaryKind::outflow, {}, {}, 2, {}, {}, {}},
+                     {Side::bottom, {}, {}, BoundaryKind::wall, {}, {}, 3, {}, {}, {}},
+                     {Side::top, {}, {}, BoundaryKind::wall, {}, {}, 4, {}, {}, {}}};
   return spec;
 }
 
@@ -45,10 +45,10 @@ CaseSpec small_cavity() {
   spec.grid.skew_amplitude = 0.05;
   spec.grid.cells_x = 24;
   spec.grid.cells_y = 24;
-  spec.boundaries = {{Side::top, {}, {}, BoundaryKind::wall, {1.0, 0.0}, {}, 1, {}, {}},
-                     {Side::bottom, {}, {}, BoundaryKind::wall, {}, {}, 2, {}, {}},
-                     {Side::left, {}, {}, BoundaryKind::wall, {}, {}, 3, {}, {}},
-                     {Side::right, {}, {}, BoundaryKind::wall, {}, {}, 4, {}, {}}};
+  spec.boundaries = {{Side::top, {}, {}, BoundaryKind::wall, {1.0, 0.0}, {}, 1, {}, {}, {}},
+                     {Side::bottom, {}, {}, BoundaryKind::wall, {}, {}, 2, {}, {}, {}},
+                     {Side::left, {}, {}, BoundaryKind::wall, {}, {}, 3, {}, {}, {}},
+                     {Side::right, {}, {}, BoundaryKind::wall, {}, {}, 4, {}, {}, {}}};
   return spec;
 }
 

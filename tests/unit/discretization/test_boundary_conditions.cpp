@@ -47,7 +47,7 @@ TEST(BoundaryConditions, WallTakesItsVelocityWhateverTheFlowAndHasZeroGradientPr
     EXPECT_EQ(ub.x, 2.0);
     EXPECT_EQ(ub.y, 0.0);
     EXPECT_TRUE(wall->scalar_is_prescribed(flux));
-    EXPECT_EQ(wall->scalar_value(3.0, flux, model_values), 0.0);
+    EXPECT_EQ(wall->scalar_value(f, 3.0, flux, model_values), 0.0);
   }
   EXPECT_TRUE(wall->is_wall());
   EXPECT_TRUE(wall->is_prescribed());
@@ -79,8 +79,8 @@ TEST(BoundaryConditions, InflowConvectsItsVelocityAndDiffusesWithTheCellViscosit
   EXPECT_EQ(ub.y, 0.5);
   EXPECT_FALSE(inflow->is_wall());
   EXPECT_TRUE(inflow->is_prescribed());
-  EXPECT_EQ(inflow->scalar_value(3.0, -0.2, model_values), 7.0);
-  EXPECT_EQ(inflow->scalar_value(3.0, 0.2, model_values), 7.0);  // prescribed in and out
+  EXPECT_EQ(inflow->scalar_value(f, 3.0, -0.2, model_values), 7.0);
+  EXPECT_EQ(inflow->scalar_value(f, 3.0, 0.2, model_values), 7.0);  // prescribed in and out
   // Entering flux -0.2: the face value is carried in; the diffusion coefficient is nu_cell A / s1.
   MomentumRow row{0.0, 0.0, 0.0, 0.0};
   inflow->add_momentum(input(-0.2, {1.0, 0.5}, {1.0, 0.5}, {0.0, 0.0}), row);
@@ -98,7 +98,7 @@ TEST(BoundaryConditions, OutflowIsZeroGradientWithFixedPressure) {
     EXPECT_EQ(ub.x, 0.4);
     EXPECT_EQ(ub.y, -0.6);
     EXPECT_FALSE(outflow->scalar_is_prescribed(flux));
-    EXPECT_EQ(outflow->scalar_value(3.0, flux, model_values), 3.0);
+    EXPECT_EQ(outflow->scalar_value(f, 3.0, flux, model_values), 3.0);
   }
   EXPECT_EQ(outflow->pressure_role(), PressureRole::fixed);
   EXPECT_EQ(outflow->pressure(), 2.5);
@@ -131,8 +131,8 @@ TEST(BoundaryConditions, OpeningTakesItsVelocityOnlyWhereFlowEnters) {
   EXPECT_EQ(leaving.y, 1.0);
   EXPECT_TRUE(opening->scalar_is_prescribed(-0.1));
   EXPECT_FALSE(opening->scalar_is_prescribed(0.1));
-  EXPECT_EQ(opening->scalar_value(3.0, -0.1, model_values), 7.0);
-  EXPECT_EQ(opening->scalar_value(3.0, 0.1, model_values), 3.0);
+  EXPECT_EQ(opening->scalar_value(f, 3.0, -0.1, model_values), 7.0);
+  EXPECT_EQ(opening->scalar_value(f, 3.0, 0.1, model_values), 3.0);
   EXPECT_EQ(opening->pressure_role(), PressureRole::fixed);
   EXPECT_EQ(opening->pressure(), 0.0);
   EXPECT_EQ(opening->flux_prediction(), FluxPrediction::rhie_chow);
@@ -161,7 +161,7 @@ TEST(BoundaryConditions, SlipRemovesTheNormalComponentAndCarriesNoFlux) {
   EXPECT_EQ(slip->pressure_role(), PressureRole::extrapolated);
   EXPECT_FALSE(slip->is_wall());
   EXPECT_FALSE(slip->scalar_is_prescribed(0.0));
-  EXPECT_EQ(slip->scalar_value(3.0, 0.0, model_values), 3.0);
+  EXPECT_EQ(slip->scalar_value(f, 3.0, 0.0, model_values), 3.0);
   // Only the normal component feels the face: the row pulls u_P towards the slip velocity.
   MomentumRow row{0.0, 0.0, 0.0, 0.0};
   slip->add_momentum(input(0.0, ub, cell, {}), row);
@@ -185,4 +185,34 @@ TEST(BoundaryConditions, OnePerSegmentAndFixedPressureOnlyWithOutflowOrOpening) 
   EXPECT_TRUE(BoundaryConditions({segment(BoundaryKind::wall), segment(BoundaryKind::outflow)}, 0.0)
                   .has_fixed_pressure());
   EXPECT_TRUE(BoundaryConditions({segment(BoundaryKind::opening)}, 0.0).has_fixed_pressure());
+}
+
+TEST(BoundaryConditions, ProfileInflowInterpolatesVelocityAndModelVariableAlongItsSide) {
+  // A left-side inflow from a three-row table: u = 2 y, v = -y, model variable 10 + y (linear, so
+  // the interpolation must reproduce it exactly between the rows).
+  BoundarySegmentSpec spec = segment(BoundaryKind::inflow);
+  spec.side = Side::left;
+  InflowProfile profile;
+  profile.coordinate = {0.0, 0.5, 2.0};
+  for (double y : profile.coordinate) {
+    profile.u.push_back(2.0 * y);
+    profile.v.push_back(-y);
+    profile.model_variable.push_back(10.0 + y);
+  }
+  spec.profile = profile;
+  const auto inflow = make_boundary_condition(spec, 0.0);
+  BoundaryFace f;
+  f.side = Side::left;
+  f.area = {-0.2, 0.0};
+  for (const double y : {0.0, 0.3, 0.5, 1.7, 2.0}) {
+    f.centre = {-4.0, y};  // the coordinate along a left side is y, whatever x is
+    const Vec2 ub = inflow->face_velocity(f, {9.0, 9.0}, -0.1);
+    EXPECT_NEAR(ub.x, 2.0 * y, 1e-15) << y;
+    EXPECT_NEAR(ub.y, -y, 1e-15) << y;
+    EXPECT_NEAR(inflow->scalar_value(f, 3.0, -0.1, model_values), 10.0 + y, 1e-14) << y;
+    // Other fields than the model variable (e.g. grad nu_t) keep the free-stream value.
+    EXPECT_EQ(inflow->scalar_value(f, 3.0, -0.1, {0.0, 7.0, false}), 7.0);
+  }
+  EXPECT_TRUE(inflow->is_prescribed());
+  EXPECT_EQ(inflow->flux_prediction(), FluxPrediction::prescribed);
 }

@@ -409,7 +409,8 @@ INSTANTIATE_TEST_SUITE_P(
                 "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\nboundaries:\n"
                 "  - side: top\n    kind: wall\n    speed: [1, 0]\n",
                 6, "boundaries[0].speed",
-                "a key of 'boundaries[0]' (side, patch, kind, from, to, faces, velocity, pressure)"},
+                "a key of 'boundaries[0]' (side, patch, kind, from, to, faces, velocity, pressure, "
+                "profile_file, profile_shift)"},
         BadCase{"repeated_key", "flow:\n  kinematic_viscosity: 0.01\n  kinematic_viscosity: 0.02\n", 3,
                 "flow.kinematic_viscosity", "first at line 2"},
         BadCase{"string_viscosity", "flow: {kinematic_viscosity: small}\n", 1, "flow.kinematic_viscosity",
@@ -434,7 +435,7 @@ INSTANTIATE_TEST_SUITE_P(
                 "grid.cells", "got [8, 8, 8]"},
         BadCase{"unknown_generator",
                 "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: box, cells: [8, 8]}\n", 2,
-                "grid.generator", "one of channel, cavity, plate, skewed_box, got box"},
+                "grid.generator", "one of channel, cavity, plate, skewed_box, step, got box"},
         BadCase{
             "plate_key_on_cavity",
             "flow: {kinematic_viscosity: 0.01}\ngrid:\n  generator: cavity\n  cells: [8, 8]\n  run_up: 0.3\n",
@@ -565,6 +566,43 @@ INSTANTIATE_TEST_SUITE_P(
                 "flow: {kinematic_viscosity: 0.01}\ngrid: {file: hill.h5}\nboundaries:\n"
                 "  - {side: bottom, faces: [5, 2], kind: wall}\n",
                 4, "boundaries[0].faces", "0 <= first <= last, got [5, 2]"},
+        BadCase{"step_key_on_channel",
+                "flow: {kinematic_viscosity: 0.01}\ngrid:\n  generator: channel\n  cells: [8, 8]\n"
+                "  step_height: 0.2\n",
+                5, "grid.step_height", "only with generator step, got generator channel"},
+        BadCase{
+            "step_without_step_height",
+            "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: step, cells: [8, 8], upstream_length: 1, "
+            "upstream_cells: 2, step_cells: 2}\n",
+            2, "grid.step_height", "the key is missing"},
+        BadCase{"step_height_not_below_height",
+                "flow: {kinematic_viscosity: 0.01}\ngrid:\n  generator: step\n  cells: [8, 8]\n  height: 2\n"
+                "  step_height: 2\n  upstream_length: 1\n  upstream_cells: 2\n  step_cells: 2\n",
+                6, "grid.step_height", "a number in (0, height) = (0, 2), got 2"},
+        BadCase{"step_upstream_cells_all",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: step, cells: [8, 8], step_height: 0.2, "
+                "upstream_length: 1, upstream_cells: 8, step_cells: 2}\n",
+                2, "grid.upstream_cells", "an integer in [1, cells_x) = [1, 8), got 8"},
+        BadCase{"step_top_cell_without_first_cell",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: step, cells: [8, 8], step_height: 0.2, "
+                "upstream_length: 1, upstream_cells: 2, step_cells: 2, top_cell_height: 0.01}\n",
+                2, "grid.top_cell_height", "no top_cell_height without grid.first_cell_height"},
+        BadCase{"profile_file_on_a_wall",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\nboundaries:\n"
+                "  - {side: bottom, kind: wall, profile_file: inlet.csv}\n",
+                4, "boundaries[0].profile_file", "no profile_file for kind 'wall' (only inflow)"},
+        BadCase{"profile_file_next_to_velocity",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\nboundaries:\n"
+                "  - {side: left, kind: inflow, velocity: [1, 0], profile_file: inlet.csv}\n",
+                4, "boundaries[0].velocity", "no velocity next to profile_file"},
+        BadCase{"profile_shift_alone",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\nboundaries:\n"
+                "  - {side: left, kind: inflow, velocity: [1, 0], profile_shift: 0.5}\n",
+                4, "boundaries[0].profile_shift", "no profile_shift without profile_file"},
+        BadCase{"inflow_without_velocity_or_profile",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\nboundaries:\n"
+                "  - {side: left, kind: inflow}\n",
+                4, "boundaries[0].velocity", "or profile_file for kind 'inflow'"},
         BadCase{"faces_next_to_from",
                 "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: cavity, cells: [8, 8]}\nboundaries:\n"
                 "  - {side: bottom, faces: [0, 3], to: 0.5, kind: wall}\n",

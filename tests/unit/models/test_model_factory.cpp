@@ -17,10 +17,10 @@ CaseSpec box_without_wall(const std::string& model) {
   spec.grid.generator = GridGenerator::cavity;
   spec.grid.cells_x = 6;
   spec.grid.cells_y = 6;
-  spec.boundaries = {{Side::left, {}, {}, BoundaryKind::inflow, {1.0, 0.0}, {}, 5, {}, {}},
-                     {Side::right, {}, {}, BoundaryKind::outflow, {}, {}, 6, {}, {}},
-                     {Side::bottom, {}, {}, BoundaryKind::slip, {}, {}, 7, {}, {}},
-                     {Side::top, {}, {}, BoundaryKind::slip, {}, {}, 8, {}, {}}};
+  spec.boundaries = {{Side::left, {}, {}, BoundaryKind::inflow, {1.0, 0.0}, {}, 5, {}, {}, {}},
+                     {Side::right, {}, {}, BoundaryKind::outflow, {}, {}, 6, {}, {}, {}},
+                     {Side::bottom, {}, {}, BoundaryKind::slip, {}, {}, 7, {}, {}, {}},
+                     {Side::top, {}, {}, BoundaryKind::slip, {}, {}, 8, {}, {}, {}}};
   spec.turbulence.model = model;
   spec.turbulence.variant = model == "k_equation"         ? "length_scale"
                             : model == "spalart_allmaras" ? "negative"
