@@ -7,6 +7,7 @@
 #include <string>
 
 #include "core/error.hpp"
+#include "meshes/hill.hpp"
 
 namespace wallrans {
 
@@ -118,6 +119,8 @@ NodeCoordinates generate_nodes(const GridSpec& spec) {
       xs = uniform(nx, spec.length);
       ys = uniform(ny, spec.height);
       break;
+    case GridGenerator::hill_channel:
+      return hill_channel_nodes(spec);
   }
   for (int j = 0; j <= ny; ++j) {
     for (int i = 0; i <= nx; ++i) out.at(i, j) = {xs[i], ys[j]};

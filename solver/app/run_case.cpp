@@ -13,6 +13,7 @@
 #include <sstream>
 
 #include "app/checkpointing.hpp"
+#include "app/flow_report.hpp"
 #include "core/atomic_file.hpp"
 #include "core/error.hpp"
 #include "coupling/flow_solver.hpp"
@@ -380,6 +381,9 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
     }
   }
   write_profiles(spec, solver, dir, comm);
+  const bool periodic = spec.periodic.axis == PeriodicAxis::x;
+  const MassBalance balance = solver.mass_balance();
+  const PeriodicDriving driving = solver.periodic_driving();
   if (rank == 0) {
     std::ostringstream json;
     json << "{\n  \"title\": " << json_string(spec.title)
@@ -405,9 +409,10 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
          << ", \"v\": " << json_number(status.normalised.v)
          << ", \"continuity\": " << json_number(status.normalised.continuity)
          << "},\n  \"residual_drop\": " << json_number(spec.iterations.residual_drop)
-         << ",\n  \"wall_time_s\": " << json_number(elapsed) << ",\n  \"caution\": " << json_string(caution)
-         << "\n}\n";
+         << flow_report_json(balance, driving, periodic) << ",\n  \"wall_time_s\": " << json_number(elapsed)
+         << ",\n  \"caution\": " << json_string(caution) << "\n}\n";
     write_file_atomically(dir / "summary.json", json.str(), "run directory");
+    std::fputs(flow_report_text(balance, driving, periodic).c_str(), stdout);
     std::printf("wallrans: %s after %d iterations (%.1f s); results in %s\n",
                 converged ? "converged"
                 : stopped ? "stopped early (restart from the last checkpoint)"

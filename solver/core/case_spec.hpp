@@ -30,7 +30,7 @@ struct FlowSpec {
   Vec2 initial_velocity{0.0, 0.0};   ///< initial interior velocity [m/s]
 };
 
-enum class GridGenerator { channel, cavity, plate, skewed_box };
+enum class GridGenerator { channel, cavity, plate, skewed_box, hill_channel };
 
 struct GridSpec {
   /// Grid file in our HDF5 layout (docs/grid-file.md), an absolute path; "" = a generated grid.
@@ -48,7 +48,9 @@ struct GridSpec {
   int run_up_cells = 0;                        ///< plate: cells in the run-up (included in cells_x)
   std::optional<double> leading_edge_spacing;  ///< plate: x spacing at the leading edge [m]
   double skew_amplitude = 0.0;                 ///< skewed_box: node displacement / box size
-  int line = 0;                                ///< case-file line of the grid section (messages)
+  /// hill_channel: hill height h [m]; the channel is 9 h long (crest to crest) and 3.035 h high.
+  double hill_height = 1.0;
+  int line = 0;  ///< case-file line of the grid section (messages)
 };
 
 struct BoundarySegmentSpec {
@@ -79,7 +81,11 @@ enum class PeriodicAxis { none, x };
 
 struct PeriodicSpec {
   PeriodicAxis axis = PeriodicAxis::none;
-  double mean_pressure_gradient = 0.0;  ///< dp/dx imposed as a body force -dp/dx [m/s^2]
+  /// dp/dx imposed as a body force -dp/dx [m/s^2]; with bulk_velocity, its starting value.
+  double mean_pressure_gradient = 0.0;
+  /// Target bulk velocity [m/s]: flow rate through the section at x = 0 (the periodic side) over
+  /// its height. Present: the mean pressure gradient is adjusted every outer iteration to hold it.
+  std::optional<double> bulk_velocity;
 };
 
 enum class Coupling { simple, simplec };
