@@ -1,6 +1,6 @@
 // The periodic hill held at a flow rate, run by the program on 2 ranks (64 x 32 with the nested
-// start): the converged gradient and bulk velocity in summary.json and on the terminal, and the
-// mass balance there.
+// start, which carries the gradient from grid to grid): the converged gradient and bulk velocity in
+// summary.json and on the terminal, and the mass balance there.
 #include <gtest/gtest.h>
 
 #include <cmath>
@@ -25,8 +25,9 @@ double json_value(const std::string& json, const std::string& key) {
 
 TEST(HillProgram, SummaryReportsTheConvergedGradientAndTheHeldBulkVelocity) {
   ScratchDirectory scratch("wallrans_hill_program");
-  write_text(scratch.path() / "hill.yaml",
-             hill_case_text({{"cells:", "[64, 32]"}, {"first_cell_height:", "3.0e-3"}}));
+  write_text(
+      scratch.path() / "hill.yaml",
+      hill_case_text({{"cells:", "[64, 32]"}, {"first_cell_height:", "3.0e-3"}, {"coarse_grids:", "2"}}));
   const ProgramResult run = run_program_mpi(2, scratch.path(), {"run", "hill.yaml", "--output-dir", "run"},
                                             scratch.path() / "logs", "hill");
   ASSERT_EQ(run.exit_status, 0) << run.out << run.err;

@@ -13,6 +13,7 @@
 #include <vector>
 
 #include "io/case_loader.hpp"
+#include "validation/grid_convergence.hpp"
 #include "verification/case_runner.hpp"
 #include "verification/plate_boundary_layer.hpp"
 
@@ -69,31 +70,6 @@ struct GridResult {
   std::vector<test_support::BoundaryLayer> at;  // one per station
 };
 
-struct Convergence {
-  double ratio_r = 0.0;  ///< R = (f2 - f1) / (f3 - f2); monotone if 0 < R < 1
-  double order = 0.0;    ///< p = ln|(f3 - f2)/(f2 - f1)| / ln r
-  double extrapolated = 0.0;
-  double gci_fine = 0.0, gci_medium = 0.0;  ///< GCI21, GCI32 (fractions)
-  double asymptotic = 0.0;                  ///< GCI32 / (r^p GCI21), about 1 in the asymptotic range
-  double gci_fine_formal = 0.0;             ///< GCI21 with the formal order p = 2 instead
-};
-
-// Roache (1998) / Celik et al. (2008) with f1 the finest grid, F_s = 1.25.
-Convergence grid_convergence(double f1, double f2, double f3, double r) {
-  Convergence c;
-  c.ratio_r = (f2 - f1) / (f3 - f2);
-  c.order = std::log(std::abs((f3 - f2) / (f2 - f1))) / std::log(r);
-  const double rp = std::pow(r, c.order);
-  c.extrapolated = f1 + (f1 - f2) / (rp - 1.0);
-  c.gci_fine = 1.25 * std::abs((f1 - f2) / f1) / (rp - 1.0);
-  c.gci_medium = 1.25 * std::abs((f2 - f3) / f2) / (rp - 1.0);
-  // With p observed on these same three grids, r^p = |f3 - f2| / |f2 - f1|, so this ratio is
-  // f1/f2 identically: it cannot fail here. p against the formal order says more.
-  c.asymptotic = c.gci_medium / (rp * c.gci_fine);
-  c.gci_fine_formal = 1.25 * std::abs((f1 - f2) / f1) / (r * r - 1.0);
-  return c;
-}
-
 }  // namespace
 
 TEST(PlateSaGridConvergence, SkinFrictionGci) {
@@ -131,7 +107,7 @@ TEST(PlateSaGridConvergence, SkinFrictionGci) {
   }
   for (size_t s = 0; s < std::size(stations); ++s) {
     const double f1 = grids[0].at[s].cf, f2 = grids[1].at[s].cf, f3 = grids[2].at[s].cf;
-    const Convergence c = grid_convergence(f1, f2, f3, refinement_ratio);
+    const test_support::Convergence c = test_support::grid_convergence(f1, f2, f3, refinement_ratio);
     // Re_theta of the finest grid; Cf_CF varies as Re_theta^-0.2 or so, so the grid dependence
     // of Re_theta (printed below) hardly moves the reference value.
     const double re_theta = grids[0].at[s].re_theta;

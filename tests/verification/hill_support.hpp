@@ -13,6 +13,13 @@
 
 namespace wallrans::test_support {
 
+/// True on rank 0 of MPI_COMM_WORLD (the rank that prints).
+inline bool is_root() {
+  int rank = 0;
+  MPI_Comm_rank(MPI_COMM_WORLD, &rank);
+  return rank == 0;
+}
+
 /// The shipped hill case with `cells` and a first-cell height scaled from the shipped grid
 /// (192 x 96, 1e-3 h) in proportion to the rows, so a coarser grid keeps its wall-normal growth.
 inline CaseSpec hill_case(int cells_x, int cells_y) {

@@ -16,16 +16,6 @@
 
 using namespace wallrans;
 
-namespace {
-
-bool is_root() {
-  int rank = 0;
-  MPI_Comm_rank(MPI_COMM_WORLD, &rank);
-  return rank == 0;
-}
-
-}  // namespace
-
 TEST(HillCase, FlowRateHeldMassBalancedAndALeeSideBubble) {
   const CaseSpec spec = test_support::hill_case(96, 48);
   const double h = spec.grid.hill_height, target = *spec.periodic.bulk_velocity;
@@ -72,7 +62,7 @@ TEST(HillCase, FlowRateHeldMassBalancedAndALeeSideBubble) {
       EXPECT_LE(shear.tau[k], 0.0) << shear.x[k];
     }
   }
-  if (is_root()) {
+  if (test_support::is_root()) {
     std::printf(
         "hill 96 x 48: %d iterations, dp/dx = %.8g, bulk velocity error %.2e (worst section %.2e), "
         "mass imbalance %.2e of the through-flow, separation x/h = %.4f, reattachment x/h = %.4f\n",
