@@ -9,6 +9,7 @@
 
 #include "core/error.hpp"
 #include "meshes/step_grid.hpp"
+#include "meshes/hill.hpp"
 
 namespace wallrans {
 
@@ -126,6 +127,8 @@ NodeCoordinates generate_nodes(const GridSpec& spec) {
       ys = std::move(lines.y);
       break;
     }
+    case GridGenerator::hill_channel:
+      return hill_channel_nodes(spec);
   }
   for (int j = 0; j <= ny; ++j) {
     for (int i = 0; i <= nx; ++i) out.at(i, j) = {xs[i], ys[j]};

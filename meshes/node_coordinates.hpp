@@ -26,7 +26,8 @@ std::vector<double> one_sided_spacing(int n, double extent, double first_spacing
 /// Positions clustered symmetrically at both ends (geometric growth to the middle); n even.
 std::vector<double> two_sided_spacing(int n, double extent, double first_spacing, const char* what);
 
-/// Builds the nodes the GridSpec describes (channel, cavity, plate, skewed_box, step). Local; the
+/// Builds the nodes the GridSpec describes (channel, cavity, plate, skewed_box, step, hill_channel
+/// in meshes/hill.hpp). Local; the
 /// same on every rank. Throws InputError for inconsistent sizes.
 NodeCoordinates generate_nodes(const GridSpec& spec);
 

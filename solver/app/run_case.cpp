@@ -22,6 +22,7 @@
 #include "app/stop_signals.hpp"
 #include "app/wall_resolution.hpp"
 #include "app/well_posedness.hpp"
+#include "app/flow_report.hpp"
 #include "core/atomic_file.hpp"
 #include "core/error.hpp"
 #include "core/utc_time.hpp"
@@ -376,6 +377,12 @@ void Run::write_outputs() {
     }
   }
   write_profiles(spec_, solver_, model_, dir_, comm_);
+  // Mass balance and periodic driving (collective), into the summary and onto the terminal.
+  const bool periodic = spec_.periodic.axis == PeriodicAxis::x;
+  const MassBalance balance = solver_.mass_balance();
+  const PeriodicDriving driving = solver_.periodic_driving();
+  summary_.flow_report_json = flow_report_json(balance, driving, periodic);
+  if (rank_ == 0) std::fputs(flow_report_text(balance, driving, periodic).c_str(), stdout);
 }
 
 void Run::finish(RunStatus status, const std::string& detail) {

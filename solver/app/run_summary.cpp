@@ -98,7 +98,7 @@ std::string summary_json(const RunSummary& s) {
        << ",\n  \"residuals\": {\"u\": " << json_number(s.residual_u)
        << ", \"v\": " << json_number(s.residual_v)
        << ", \"continuity\": " << json_number(s.residual_continuity)
-       << "},\n  \"residual_drop\": " << json_number(s.residual_drop)
+       << "},\n  \"residual_drop\": " << json_number(s.residual_drop) << s.flow_report_json
        << ",\n  \"wall_time_s\": " << json_number(s.wall_time_s)
        << ",\n  \"warnings\": " << json_strings(s.warnings)
        << ",\n  \"diagnostic_file\": " << json_string(s.diagnostic_file)

@@ -39,6 +39,8 @@ struct RunSummary {
   double coarse_work = 0.0;
   std::string detail;                 ///< why it stopped, diverged or failed
   std::vector<std::string> warnings;  ///< e.g. PETSc options nobody used, first-cell y+ above 1
+  /// Mass balance and periodic driving: JSON members (app/flow_report.hpp), empty until the outputs.
+  std::string flow_report_json;
   std::string diagnostic_file;        ///< diverged: the file with the fields of the last good iteration
   /// Closures that integrate to the wall: the largest first-cell y+ and its wall-face centre.
   double max_first_cell_y_plus = std::numeric_limits<double>::quiet_NaN();

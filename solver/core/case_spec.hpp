@@ -31,7 +31,7 @@ struct FlowSpec {
   Vec2 initial_velocity{0.0, 0.0};   ///< initial interior velocity [m/s]
 };
 
-enum class GridGenerator { channel, cavity, plate, skewed_box, step };
+enum class GridGenerator { channel, cavity, plate, skewed_box, step, hill_channel };
 
 struct GridSpec {
   /// Grid file in our HDF5 layout (docs/grid-file.md), an absolute path; "" = a generated grid.
@@ -57,6 +57,8 @@ struct GridSpec {
   int step_cells = 0;                     ///< step: cells in y below y = step_height (within cells_y)
   std::optional<double> corner_spacing;   ///< step: x spacing on both sides of x = 0 [m]
   std::optional<double> top_cell_height;  ///< step: first cell height at the top (default first_cell_height)
+  /// hill_channel: hill height h [m]; the channel is 9 h long (crest to crest) and 3.035 h high.
+  double hill_height = 1.0;
   int line = 0;                                ///< case-file line of the grid section (messages)
 };
 
@@ -91,7 +93,11 @@ enum class PeriodicAxis { none, x };
 
 struct PeriodicSpec {
   PeriodicAxis axis = PeriodicAxis::none;
-  double mean_pressure_gradient = 0.0;  ///< dp/dx imposed as a body force -dp/dx [m/s^2]
+  /// dp/dx imposed as a body force -dp/dx [m/s^2]; with bulk_velocity, its starting value.
+  double mean_pressure_gradient = 0.0;
+  /// Target bulk velocity [m/s]: flow rate through the section at x = 0 (the periodic side) over
+  /// its height. Present: the mean pressure gradient is adjusted every outer iteration to hold it.
+  std::optional<double> bulk_velocity;
 };
 
 enum class Coupling { simple, simplec };

@@ -73,6 +73,7 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
       a_pc_setup_(grid.dm()),
       d_setup_(grid) {
   has_pressure_boundary_ = conditions_.has_fixed_pressure();
+  mean_pressure_gradient_ = spec.periodic.mean_pressure_gradient;
   solid_ = boundaries.solid().ghosted_mask(grid);
   has_solid_ = boundaries.solid().any();
   n_fluid_ = static_cast<double>(grid.cells_x()) * grid.cells_y() - boundaries.solid().count();
@@ -88,6 +89,15 @@ FlowSolver::FlowSolver(const CaseSpec& spec, const Grid& grid, const BoundaryMap
   wall_shear_local_.assign(static_cast<size_t>(n_walls), 0.0);
   for (const auto& f : bfaces_) wall_id_.push_back(wall_of_face[f.id]);
   bflux_.assign(bfaces_.size(), 0.0);
+  if (grid.periodic_x()) {
+    double height = 0.0;  // the section at x = 0: east faces of the last column (open ones)
+    if (grid.x_end() == grid.cells_x()) {
+      const int i = grid.cells_x() - 1;
+      for (int j = grid.y_begin(); j < grid.y_end(); ++j)
+        if (!is_closed(grid.local(i, j), grid.local(i + 1, j))) height += grid.east_face(i, j).area.x;
+    }
+    section_height_ = grid.global_sum(height);
+  }
   lsq_all_ = std::make_unique<LeastSquaresGradient>(
       grid, bfaces_, [](const BoundaryFace&) { return true; }, solid_);
   lsq_pressure_ = std::make_unique<LeastSquaresGradient>(
@@ -304,6 +314,7 @@ IterationStatus FlowSolver::iterate() {
   assemble_and_solve_pressure_correction(status);
   phase.emplace(stages_.correction_gradients);
   correct();
+  hold_flow_rate();
   // The wall shear and the model see the gradients of the corrected velocity, and the next
   // momentum assembly uses them as they are.
   update_velocity_gradients();
@@ -358,6 +369,8 @@ SolverRestartState FlowSolver::restart_state() {
   model_reference_.resize(model_.residuals().size(), 0.0);
   for (size_t k = 0; k < model_reference_.size(); ++k)
     state.scalars.push_back({"model_residual_reference_" + std::to_string(k), &model_reference_[k]});
+  if (spec_.periodic.bulk_velocity)
+    state.scalars.push_back({"mean_pressure_gradient", &mean_pressure_gradient_});
   state.iteration = &iteration_;
   return state;
 }

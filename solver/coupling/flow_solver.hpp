@@ -5,6 +5,7 @@
 
 #include <functional>
 #include <memory>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -50,6 +51,23 @@ struct WallSample {
   double first_cell_distance;  ///< normal distance wall -> first cell centre [m]
 };
 
+/// The driving of a streamwise-periodic case (periodic.axis x).
+struct PeriodicDriving {
+  double mean_pressure_gradient = 0.0;  ///< dp/dx now [m/s^2], applied as the body force -dp/dx
+  double bulk_velocity = 0.0;           ///< flow rate through the section at x = 0 / section_height [m/s]
+  double section_height = 0.0;          ///< sum of the x components of the section's face areas [m]
+  std::optional<double> target;         ///< periodic.bulk_velocity (absent: the gradient is fixed)
+};
+
+/// Mass balance of the current face fluxes (after the last correction).
+struct MassBalance {
+  double net_outflow = 0.0;  ///< sum of the boundary fluxes, out of the domain [m^2/s]
+  double cells_l1 = 0.0;     ///< sum over fluid cells of |net flux out of the cell| [m^2/s]
+  /// Reference flow rate [m^2/s]: through the section at x = 0 of a periodic case, otherwise the
+  /// sum of the inflows through the boundary (0 in a closed domain).
+  double through_flow = 0.0;
+};
+
 /// Everything the solver needs to continue bit-identically from a checkpoint, borrowed.
 struct SolverRestartState {
   std::vector<std::pair<std::string, Field*>> cells;  ///< cell fields, global (i, j)
@@ -58,7 +76,8 @@ struct SolverRestartState {
   std::vector<std::pair<std::string, std::vector<double>*>> boundary;
   std::vector<int> boundary_ids;
   int n_boundary_faces = 0;
-  std::vector<std::pair<std::string, double*>> scalars;  ///< residual references
+  /// Residual references, and the mean pressure gradient when it is adjusted to a flow rate.
+  std::vector<std::pair<std::string, double*>> scalars;
   int* iteration;
 };
 
@@ -102,9 +121,19 @@ class FlowSolver {
   /// [m^2/s], positive out of the domain (same order).
   const std::vector<BoundaryFace>& boundary_faces() const { return bfaces_; }
   const std::vector<double>& boundary_fluxes() const { return bflux_; }
+  /// Volume flux [m^2/s] through the east face of each cell (ghosted range, towards +i).
+  const Field& flux_east() const { return flux_e_; }
   /// |tau_w| of every no-slip wall face of the domain (boundary-face id order: block sides, then
   /// faces next to solid cells), the same on every rank; refreshed each iteration.
   const std::vector<double>& wall_shear() const { return wall_shear_; }
+  /// Collective. The driving of a periodic case (zeros when periodic.axis is none).
+  PeriodicDriving periodic_driving() const;
+  /// Collective. Mass balance of the current fluxes.
+  MassBalance mass_balance() const;
+  /// Local. The mean pressure gradient dp/dx applied now [m/s^2], and setting it (e.g. carried
+  /// over from a coarser grid).
+  double mean_pressure_gradient() const { return mean_pressure_gradient_; }
+  void set_mean_pressure_gradient(double gradient) { mean_pressure_gradient_ = gradient; }
   /// 1 in solid cells, 0 in fluid cells (ghosted range), for output.
   const Field& solid() const { return solid_field_; }
   /// The solver's part of a checkpoint (the model's part is TurbulenceModel::restart_state()).
@@ -165,6 +194,13 @@ class FlowSolver {
     return condition(face).pressure_role() == PressureRole::fixed;
   }
   void solve_linear(KSP ksp, Vec rhs, Field& solution, int& iterations, bool& converged);
+  /// Local. Net volume flux out of owned fluid cell (i, j) [m^2/s] (its mass imbalance).
+  double cell_net_outflow(int i, int j) const;
+  /// Collective. Flow rate through the section at x = 0 (east faces of column cells_x - 1).
+  double section_flow_rate() const;
+  /// Collective. With periodic.bulk_velocity: adjusts the mean pressure gradient so the section
+  /// carries the target flow rate (flow_rate_control.cpp).
+  void hold_flow_rate();
 
   const CaseSpec& spec_;
   const Grid& grid_;
@@ -188,6 +224,8 @@ class FlowSolver {
   std::vector<double> wall_shear_;        // |tau_w| per global wall face
   std::vector<double> wall_shear_local_;  // this rank's part of wall_shear_ before the sum
   int iteration_ = 0;
+  double mean_pressure_gradient_ = 0.0;      // dp/dx applied now (periodic cases) [m/s^2]
+  double section_height_ = 0.0;              // sum of S_x over the section at x = 0 [m]
   bool velocity_gradients_current_ = false;  // grad_u_, grad_v_ belong to vel_ and u_b_, v_b_
   std::vector<double> continuity_scale_;     // 1 / (U_ref half perimeter) per owned cell, owned order
   double continuity_per_cell_ = 0.0;         // mean relative mass imbalance of the last iteration

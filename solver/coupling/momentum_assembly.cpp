@@ -92,7 +92,7 @@ void FlowSolver::assemble_momentum(ResidualNorms& residual) {
   const double share = spec_.iterations.relax_diffusive_part;
   const double nu = spec_.flow.kinematic_viscosity;
   Vec2 body = spec_.flow.body_force;
-  if (spec_.periodic.axis == PeriodicAxis::x) body.x -= spec_.periodic.mean_pressure_gradient;
+  if (spec_.periodic.axis == PeriodicAxis::x) body.x -= mean_pressure_gradient_;
   const bool is_simplec = spec_.iterations.coupling == Coupling::simplec;
   compute_face_terms();
 

@@ -139,6 +139,8 @@ void prolong(const Grid& coarse_grid, FlowSolver& coarse, TurbulenceModel& coars
   // grids): interpolated pressure 586 iterations on the fine grid, zero pressure 219 (cold start
   // 263); the interpolated field leaves a slowly decaying error in the v equation.
   fine.initialised_from_fields();
+  // A flow-rate-driven periodic case continues from the gradient of the coarser grid.
+  fine.set_mean_pressure_gradient(coarse.mean_pressure_gradient());
 
   // Model fields: "<name>_gradient_x/y" is the gradient of "<name>" where both exist.
   std::map<std::string, Field*> model_from;

@@ -124,6 +124,18 @@ void FlowSolver::assemble_pressure_matrix(const PressureCoefficients& c, Stencil
   fill.end();
 }
 
+double FlowSolver::cell_net_outflow(int i, int j) const {
+  double net_out = 0.0;
+  if (grid_.has_east(i)) net_out += flux_e_(i, j);
+  if (grid_.has_north(j)) net_out += flux_n_(i, j);
+  if (grid_.has_west(i)) net_out -= flux_e_(i - 1, j);
+  if (grid_.has_south(j)) net_out -= flux_n_(i, j - 1);
+  for (int slot : cell_faces_[grid_.owned(i, j)]) {
+    if (slot >= 0) net_out += bflux_[slot];  // stored outward: out of the domain and this cell
+  }
+  return net_out;
+}
+
 void FlowSolver::assemble_and_solve_pressure_correction(IterationStatus& status) {
   PetscScalar** b = nullptr;
   check_petsc(DMDAVecGetArray(grid_.dm(), b_vec_.get(), &b));
@@ -134,14 +146,7 @@ void FlowSolver::assemble_and_solve_pressure_correction(IterationStatus& status)
         b[j][i] = 0.0;  // p' = 0 in solid cells
         continue;
       }
-      double net_out = 0.0;
-      if (grid_.has_east(i)) net_out += flux_e_(i, j);
-      if (grid_.has_north(j)) net_out += flux_n_(i, j);
-      if (grid_.has_west(i)) net_out -= flux_e_(i - 1, j);
-      if (grid_.has_south(j)) net_out -= flux_n_(i, j - 1);
-      for (int slot : cell_faces_[grid_.owned(i, j)]) {
-        if (slot >= 0) net_out += bflux_[slot];  // stored outward: out of the domain and this cell
-      }
+      const double net_out = cell_net_outflow(i, j);
       b[j][i] = -net_out;
       imbalance += std::abs(net_out);
       imbalance_per_cell += std::abs(net_out) * continuity_scale_[grid_.owned(i, j)];

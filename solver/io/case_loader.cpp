@@ -19,6 +19,7 @@
 #include "io/profile_reader.hpp"
 #include "io/yaml_reader.hpp"
 #include "meshes/step_grid.hpp"
+#include "meshes/hill.hpp"
 
 namespace wallrans {
 
@@ -29,7 +30,8 @@ using yaml_reader::Section;
 using yaml_reader::Value;
 
 constexpr std::array all_generators{GridGenerator::channel, GridGenerator::cavity, GridGenerator::plate,
-                                    GridGenerator::skewed_box, GridGenerator::step};
+                                    GridGenerator::skewed_box, GridGenerator::step,
+                                     GridGenerator::hill_channel};
 constexpr std::array all_sides{Side::left, Side::right, Side::bottom, Side::top};
 constexpr std::array all_kinds{BoundaryKind::wall, BoundaryKind::inflow, BoundaryKind::outflow,
                                BoundaryKind::slip, BoundaryKind::opening};
@@ -67,6 +69,8 @@ const char* name_of(GridGenerator generator) {
       return "skewed_box";
     case GridGenerator::step:
       return "step";
+    case GridGenerator::hill_channel:
+      return "hill_channel";
   }
   return "?";
 }
@@ -198,6 +202,21 @@ void read_plate_keys(const Section& section, GridSpec& grid) {
   }
 }
 
+// The hill channel's extents follow from the hill height (meshes/hill.hpp), so length and height
+// would be ignored.
+void read_hill_keys(const Section& section, GridSpec& grid) {
+  for (const char* key : {"length", "height"}) {
+    if (const auto value = section.find(key)) {
+      value->fail("no grid." + std::string(key) +
+                      " with generator hill_channel (9 x 3.035 hill heights; give grid.hill_height)",
+                  "a value");
+    }
+  }
+  grid.hill_height = number_or(section, "hill_height", grid.hill_height, positive_number, is_positive);
+  grid.length = hill_period_in_h * grid.hill_height;
+  grid.height = hill_channel_height_in_h * grid.hill_height;
+}
+
 // A file named relative to the case file's folder, made absolute so the resolved case in a run
 // directory still finds it. `what` names the file's kind for the message.
 std::string path_from_case(const Value& file, const std::string& what) {
@@ -215,7 +234,8 @@ GridSpec read_grid(const Value& value) {
   const Section section =
       value.section({"file", "generator", "cells", "length", "height", "first_cell_height", "run_up",
                      "run_up_cells", "leading_edge_spacing", "skew_amplitude", "step_height",
-                     "upstream_length", "upstream_cells", "step_cells", "corner_spacing", "top_cell_height"});
+                     "upstream_length", "upstream_cells", "step_cells", "corner_spacing", "top_cell_height",
+                     "hill_height"});
   GridSpec grid;
   grid.line = value.line();
   if (const auto file = section.find("file")) {
@@ -223,7 +243,7 @@ GridSpec read_grid(const Value& value) {
     for (const char* key :
          {"generator", "cells", "length", "height", "first_cell_height", "run_up", "run_up_cells",
           "leading_edge_spacing", "skew_amplitude", "step_height", "upstream_length", "upstream_cells",
-          "step_cells", "corner_spacing", "top_cell_height"}) {
+          "step_cells", "corner_spacing", "top_cell_height", "hill_height"}) {
       if (const auto other = section.find(key)) other->fail("no generator key next to grid.file", "a value");
     }
     grid.file = path_from_case(*file, "a grid file");
@@ -252,11 +272,13 @@ GridSpec read_grid(const Value& value) {
   if (grid.generator == GridGenerator::step) read_step_keys(section, grid);
   grid.skew_amplitude = number_or(section, "skew_amplitude", grid.skew_amplitude, "a number in [0, 0.2)",
                                   [](double a) { return a >= 0.0 && a < 0.2; });
+  reject_foreign_keys(section, grid, GridGenerator::hill_channel, {"hill_height"});
+  if (grid.generator == GridGenerator::hill_channel) read_hill_keys(section, grid);
   return grid;
 }
 
 PeriodicSpec read_periodic(const Value& value, const GridSpec& grid) {
-  const Section section = value.section({"axis", "mean_pressure_gradient"});
+  const Section section = value.section({"axis", "mean_pressure_gradient", "bulk_velocity"});
   PeriodicSpec periodic;
   const Value axis = section.require("axis", one_of(periodic_axes));
   periodic.axis = read_enum(axis, periodic_axes);
@@ -265,6 +287,8 @@ PeriodicSpec read_periodic(const Value& value, const GridSpec& grid) {
     axis.fail("grid.cells_x >= 2 for a periodic x axis", "cells_x = " + std::to_string(grid.cells_x));
   }
   periodic.mean_pressure_gradient = number_or(section, "mean_pressure_gradient", 0.0, any_number);
+  if (const auto bulk = section.find("bulk_velocity"))
+    periodic.bulk_velocity = bulk->number(positive_number, is_positive);
   return periodic;
 }
 
@@ -583,8 +607,12 @@ void put_grid(YAML::Emitter& out, const GridSpec& grid) {
   put(out, "generator", name_of(grid.generator));
   out << YAML::Key << "cells" << YAML::Value << YAML::Flow << YAML::BeginSeq << grid.cells_x << grid.cells_y
       << YAML::EndSeq;
-  put(out, "length", grid.length);
-  put(out, "height", grid.height);
+  if (grid.generator == GridGenerator::hill_channel) {
+    put(out, "hill_height", grid.hill_height);
+  } else {
+    put(out, "length", grid.length);
+    put(out, "height", grid.height);
+  }
   if (grid.first_cell_height) put(out, "first_cell_height", *grid.first_cell_height);
   if (grid.generator == GridGenerator::plate) {
     put(out, "run_up", grid.run_up);
@@ -742,6 +770,7 @@ std::string resolved_case_yaml(const CaseSpec& spec) {
     out << YAML::Key << "periodic" << YAML::Value << YAML::BeginMap;
     put(out, "axis", name_of(spec.periodic.axis));
     put(out, "mean_pressure_gradient", spec.periodic.mean_pressure_gradient);
+    if (spec.periodic.bulk_velocity) put(out, "bulk_velocity", *spec.periodic.bulk_velocity);
     out << YAML::EndMap;
   }
 

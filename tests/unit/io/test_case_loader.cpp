@@ -69,6 +69,15 @@ boundaries:
   - {side: top, kind: wall}
 )";
 
+// A hill channel held at a flow rate (meshes/hill.hpp, periodic.bulk_velocity).
+const char* const hill_case = R"(flow: {kinematic_viscosity: 1.0e-4}
+grid: {generator: hill_channel, cells: [16, 8], hill_height: 0.028, first_cell_height: 1.0e-4}
+periodic: {axis: x, bulk_velocity: 0.5, mean_pressure_gradient: -0.01}
+boundaries:
+  - {side: bottom, kind: wall}
+  - {side: top, kind: wall}
+)";
+
 void expect_same_vec(Vec2 a, Vec2 b) {
   EXPECT_EQ(a.x, b.x);
   EXPECT_EQ(a.y, b.y);
@@ -94,6 +103,7 @@ void expect_same_case(const CaseSpec& a, const CaseSpec& b) {
   EXPECT_EQ(a.grid.run_up_cells, b.grid.run_up_cells);
   EXPECT_EQ(a.grid.leading_edge_spacing, b.grid.leading_edge_spacing);
   EXPECT_EQ(a.grid.skew_amplitude, b.grid.skew_amplitude);
+  EXPECT_EQ(a.grid.hill_height, b.grid.hill_height);
   ASSERT_EQ(a.boundaries.size(), b.boundaries.size());
   for (size_t s = 0; s < a.boundaries.size(); ++s) {
     SCOPED_TRACE("segment " + std::to_string(s));
@@ -116,6 +126,7 @@ void expect_same_case(const CaseSpec& a, const CaseSpec& b) {
   }
   EXPECT_EQ(a.periodic.axis, b.periodic.axis);
   EXPECT_EQ(a.periodic.mean_pressure_gradient, b.periodic.mean_pressure_gradient);
+  EXPECT_EQ(a.periodic.bulk_velocity, b.periodic.bulk_velocity);
   EXPECT_EQ(a.turbulence.model, b.turbulence.model);
   EXPECT_EQ(a.iterations.coupling, b.iterations.coupling);
   EXPECT_EQ(a.iterations.max, b.iterations.max);
@@ -255,6 +266,20 @@ TEST(CaseLoader, MinimalCaseTakesDocumentedDefaults) {
 TEST(CaseLoader, ResolvedYamlReadsBackToTheSameCase) {
   expect_round_trip(parse_case_text(full_plate_case, "plate_check.yaml"));
   expect_round_trip(parse_case_text(periodic_box_case, "box.yaml"));
+  expect_round_trip(parse_case_text(hill_case, "hill.yaml"));
+}
+
+TEST(CaseLoader, HillChannelTakesItsExtentsFromTheHillHeightAndAFlowRate) {
+  const CaseSpec spec = parse_case_text(hill_case, "hill.yaml");
+  EXPECT_EQ(spec.grid.generator, GridGenerator::hill_channel);
+  EXPECT_EQ(spec.grid.hill_height, 0.028);
+  EXPECT_DOUBLE_EQ(spec.grid.length, 9.0 * 0.028);
+  EXPECT_DOUBLE_EQ(spec.grid.height, 3.035 * 0.028);
+  ASSERT_TRUE(spec.periodic.bulk_velocity.has_value());
+  EXPECT_EQ(*spec.periodic.bulk_velocity, 0.5);
+  EXPECT_EQ(spec.periodic.mean_pressure_gradient, -0.01);  // the starting value
+  // Without bulk_velocity the gradient is fixed, as before.
+  EXPECT_FALSE(parse_case_text(periodic_box_case, "box.yaml").periodic.bulk_velocity.has_value());
 }
 
 TEST(CaseLoader, ResolvedYamlKeepsAwkwardStringsAndNumbersExact) {
@@ -435,7 +460,23 @@ INSTANTIATE_TEST_SUITE_P(
                 "grid.cells", "got [8, 8, 8]"},
         BadCase{"unknown_generator",
                 "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: box, cells: [8, 8]}\n", 2,
-                "grid.generator", "one of channel, cavity, plate, skewed_box, step, got box"},
+                "grid.generator", "one of channel, cavity, plate, skewed_box, step, hill_channel, got box"},
+        BadCase{"hill_key_on_channel",
+                "flow: {kinematic_viscosity: 0.01}\ngrid:\n  generator: channel\n  cells: [8, 8]\n"
+                "  hill_height: 2.0\n",
+                5, "grid.hill_height", "only with generator hill_channel, got generator channel"},
+        BadCase{"length_on_hill_channel",
+                "flow: {kinematic_viscosity: 0.01}\ngrid:\n  generator: hill_channel\n  cells: [8, 8]\n"
+                "  length: 9.0\n",
+                5, "grid.length", "no grid.length with generator hill_channel"},
+        BadCase{"negative_hill_height",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: hill_channel, cells: [8, 8], "
+                "hill_height: -1}\n",
+                2, "grid.hill_height", "a number > 0, got -1"},
+        BadCase{"zero_bulk_velocity",
+                "flow: {kinematic_viscosity: 0.01}\ngrid: {generator: channel, cells: [8, 8]}\n"
+                "periodic: {axis: x, bulk_velocity: 0}\n",
+                3, "periodic.bulk_velocity", "a number > 0, got 0"},
         BadCase{
             "plate_key_on_cavity",
             "flow: {kinematic_viscosity: 0.01}\ngrid:\n  generator: cavity\n  cells: [8, 8]\n  run_up: 0.3\n",
