@@ -25,6 +25,7 @@ class BaldwinBarth final : public WallBoundedModel {
   void update(const MeanFlowView& flow) override;
   std::vector<ModelResidual> residuals() const override { return {{"nu_rt", residual_}}; }
   bool linear_solves_converged() const override { return transport_.linear_solve_converged(); }
+  int linear_iterations() const override { return transport_.linear_iterations(); }
   std::vector<std::pair<std::string, const Field*>> output_fields() const override;
   std::vector<std::pair<std::string, Field*>> restart_state() override {
     return {{"nu_rt", &r_},

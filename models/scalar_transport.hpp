@@ -43,6 +43,8 @@ class ScalarTransport {
   /// Whether the linear solve of the last step converged (KSP converged reason checked; hitting
   /// the iteration cap is tolerated, a breakdown is not).
   bool linear_solve_converged() const { return linear_solve_converged_; }
+  /// Krylov iterations of the linear solve of the last step.
+  int linear_iterations() const { return linear_iterations_; }
 
   /// Least-squares gradient of the last solved phi (owned and ghost cells, before the step).
   const VectorField& gradient() const { return grad_; }
@@ -75,6 +77,7 @@ class ScalarTransport {
   OwnedVec rhs_, solution_;
   OwnedKsp ksp_;
   bool linear_solve_converged_ = true;
+  int linear_iterations_ = 0;
 };
 
 }  // namespace wallrans

@@ -24,6 +24,7 @@ enum class BoundaryKind {
 struct FlowSpec {
   double kinematic_viscosity = 0.0;  ///< nu [m^2/s], required, > 0
   double reference_velocity = 1.0;   ///< U_ref for Cf, Cp, initial field [m/s], > 0
+  bool reference_velocity_given = false;  ///< the case file sets reference_velocity (reports say so)
   double reference_length = 1.0;     ///< L_ref for Reynolds number and reports [m], > 0
   double reference_pressure = 0.0;   ///< p_ref for Cp and default outflow pressure [m^2/s^2]
   Vec2 body_force{0.0, 0.0};         ///< uniform body force per unit mass [m/s^2]
@@ -156,5 +157,6 @@ struct CaseSpec {
 
 const char* to_string(Side side);
 const char* to_string(BoundaryKind kind);
+const char* to_string(GridGenerator generator);
 
 }  // namespace wallrans
