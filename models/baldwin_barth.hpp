@@ -26,6 +26,7 @@ class BaldwinBarth final : public WallBoundedModel {
   std::vector<ModelResidual> residuals() const override { return {{"nu_rt", residual_}}; }
   bool linear_solves_converged() const override { return transport_.linear_solve_converged(); }
   const SolverOptions* solver_options() const override { return &transport_.solver_options(); }
+  int linear_iterations() const override { return transport_.linear_iterations(); }
   std::vector<std::pair<std::string, const Field*>> output_fields() const override;
   std::vector<std::pair<std::string, Field*>> restart_state() override {
     return {{"nu_rt", &r_},

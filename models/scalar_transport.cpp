@@ -207,6 +207,9 @@ double ScalarTransport::solve(const MeanFlowView& flow, ScalarEquation& eq) {
   KSPConvergedReason reason;
   check_petsc(KSPGetConvergedReason(ksp_.get(), &reason));
   linear_solve_converged_ = reason >= 0 || reason == KSP_DIVERGED_ITS;
+  PetscInt its = 0;
+  check_petsc(KSPGetIterationNumber(ksp_.get(), &its));
+  linear_iterations_ = static_cast<int>(its);
   check_petsc(DMDAVecGetArray(grid_.dm(), solution_.get(), &x));
   for (int j = grid_.y_begin(); j < grid_.y_end(); ++j)
     for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) phi(i, j) = x[j][i];

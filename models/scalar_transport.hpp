@@ -49,6 +49,8 @@ class ScalarTransport {
   /// Whether the linear solve of the last step converged (KSP converged reason checked; hitting
   /// the iteration cap is tolerated, a breakdown is not).
   bool linear_solve_converged() const { return linear_solve_converged_; }
+  /// Krylov iterations of the linear solve of the last step.
+  int linear_iterations() const { return linear_iterations_; }
 
   /// The PETSc options database of the linear solver.
   const SolverOptions& solver_options() const { return *options_; }
@@ -85,6 +87,7 @@ class ScalarTransport {
   std::unique_ptr<SolverOptions> options_;  // declared before the solver that reads it
   OwnedKsp ksp_;
   bool linear_solve_converged_ = true;
+  int linear_iterations_ = 0;
 };
 
 }  // namespace wallrans

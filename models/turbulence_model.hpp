@@ -49,6 +49,8 @@ class TurbulenceModel {
   /// Whether the model's linear solves of the last update() converged (reaching the iteration
   /// cap is tolerated, as for the momentum and pressure solves; a breakdown is not).
   virtual bool linear_solves_converged() const { return true; }
+  /// Krylov iterations of the model's linear solves in the last update() (0 without equations).
+  virtual int linear_iterations() const { return 0; }
   /// Every cell field the model needs to continue bit-identically after a restart (its
   /// variables, the eddy viscosity and any lagged state), named for the checkpoint; borrowed.
   virtual std::vector<std::pair<std::string, Field*>> restart_state() { return {}; }

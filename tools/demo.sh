@@ -28,13 +28,15 @@ mpirun -np "${DEMO_RANKS}" build/wallrans run "${DEMO_CASE}" --output-dir "${DEM
 cat <<MSG
 
 demo: results are in ${root}/${DEMO_OUT}/
-  fields.pvts, fields_<rank>.vts  cell data: velocity, pressure, eddy_viscosity, nu_tilde,
-                                  wall_distance, y_plus, cell_volume, cell_index
-  residuals.csv                     residuals (incl. the model's) and linear-solver iterations
-  wall.csv                        x, y, Cf, Cp, wall shear stress, first-cell y+ along the plate
-  profile_<k>.csv                 y, y+, U+, nu_t/nu at the stations x = 0.25, 0.5, 0.9 m
+  fields.pvts, fields_<rank>.vts  cell and point data: velocity, pressure, eddy_viscosity,
+                                  nu_tilde, wall_distance, y_plus (cell_volume, cell_index)
+  residuals.csv                   residuals and linear-solver iterations of every equation
+  wall.csv                        segment, side, x, y, s, tangent, Cf, Cp, wall shear, y+
+  profile_x<X>.csv                y, y+, U+, nu_t/nu from the nearest wall at x = 0.25, 0.5, 0.9 m
   checkpoint_<N>.h5 / .xmf        restart file (parallel HDF5) and its XDMF description
-  summary.json                    final residuals, convergence state, wall time
+  summary.json                    how the run ended, final residuals, and the answers: forces,
+                                  Cf, y+, separation and reattachment per wall
+  progress.log                    everything the run printed
   case.resolved.yaml              the case with every default written out (itself a valid case)
 
 To view the fields, open ${DEMO_OUT}/fields.pvts (the index of the per-rank pieces) in any VTK

@@ -17,7 +17,9 @@
 #include "app/divergence.hpp"
 #include "app/petsc_option_checks.hpp"
 #include "app/resource_guard.hpp"
+#include "app/progress.hpp"
 #include "app/run_directory.hpp"
+#include "app/run_outputs.hpp"
 #include "app/run_summary.hpp"
 #include "app/stop_signals.hpp"
 #include "app/wall_resolution.hpp"
@@ -150,6 +152,23 @@ std::string file_grid_report(const Setup& s) {
   return text + quality_report(quality, *s.boundaries);
 }
 
+// The lines of `text` without their line breaks.
+std::vector<std::string> lines_of(const std::string& text) {
+  std::vector<std::string> lines;
+  for (size_t start = 0; start < text.size();) {
+    const size_t end = std::min(text.find('\n', start), text.size());
+    lines.push_back(text.substr(start, end - start));
+    start = end + 1;
+  }
+  return lines;
+}
+
+std::string format_number(double value) {
+  char text[32];
+  std::snprintf(text, sizeof text, "%.6g", value);
+  return text;
+}
+
 int rank_of(MPI_Comm comm) {
   int rank = 0;
   check_mpi(MPI_Comm_rank(comm, &rank));
@@ -168,11 +187,16 @@ std::unique_ptr<CsvWriter> open_history(const fs::path& dir, const TurbulenceMod
       earlier.clear();  // an unreadable old history is replaced, not fatal
     }
   }
-  std::vector<std::string> columns{"iteration", "u_residual", "v_residual", "continuity_residual"};
-  for (const auto& r : model.residuals()) columns.push_back(r.name + "_residual");
-  for (const char* c : {"u_residual_abs", "v_residual_abs", "continuity_residual_abs"}) columns.push_back(c);
-  for (const auto& r : model.residuals()) columns.push_back(r.name + "_residual_abs");
-  for (const char* c : {"momentum_linear_its", "pressure_linear_its", "elapsed_s"}) columns.push_back(c);
+  std::vector<CsvColumn> columns{
+      {"iteration", CsvType::integer}, {"u_residual"}, {"v_residual"}, {"continuity_residual"}};
+  for (const auto& r : model.residuals()) columns.push_back({r.name + "_residual"});
+  for (const char* c : {"u_residual_abs", "v_residual_abs", "continuity_residual_abs"})
+    columns.push_back({c});
+  for (const auto& r : model.residuals()) columns.push_back({r.name + "_residual_abs"});
+  for (const char* c : {"momentum_linear_its", "pressure_linear_its"})
+    columns.push_back({c, CsvType::integer});
+  if (!model.residuals().empty()) columns.push_back({"turbulence_linear_its", CsvType::integer});
+  columns.push_back({"elapsed_s"});
   auto history = std::make_unique<CsvWriter>((dir / "residuals.csv").string(), columns);
   for (const auto& row : earlier)
     if (row.size() == columns.size()) history->row(row);
@@ -182,12 +206,13 @@ std::unique_ptr<CsvWriter> open_history(const fs::path& dir, const TurbulenceMod
 // One run after its directory is claimed: iterate, then write the outputs and the summary.
 class Run {
  public:
-  Run(MPI_Comm comm, const RunOptions& options, const CaseSpec& spec, const TurbulenceModel& model,
-      FlowSolver& solver, RunCheckpoints& checkpoints, const RunDirectory& directory, RunSummary& summary,
-      Clock::time_point start)
+  Run(MPI_Comm comm, const RunOptions& options, const CaseSpec& spec, const BoundaryMap& boundaries,
+      const TurbulenceModel& model, FlowSolver& solver, RunCheckpoints& checkpoints,
+      const RunDirectory& directory, RunSummary& summary, Clock::time_point start, ProgressOutput* progress)
       : comm_(comm),
         options_(options),
         spec_(spec),
+        boundaries_(boundaries),
         model_(model),
         solver_(solver),
         checkpoints_(checkpoints),
@@ -195,7 +220,9 @@ class Run {
         summary_(summary),
         start_(start),
         rank_(rank_of(comm)),
-        watch_(solver, model) {}
+        watch_(solver, model),
+        progress_(progress),
+        estimate_(spec.iterations.residual_drop) {}
 
   int execute(int first_iteration, const StopSignals& signals);
 
@@ -211,6 +238,7 @@ class Run {
   MPI_Comm comm_;
   const RunOptions& options_;
   const CaseSpec& spec_;
+  const BoundaryMap& boundaries_;
   const TurbulenceModel& model_;
   FlowSolver& solver_;
   RunCheckpoints& checkpoints_;
@@ -218,6 +246,10 @@ class Run {
   RunSummary& summary_;
   Clock::time_point start_;
   int rank_;
+  ProgressOutput* progress_;  // rank 0 only
+  ConvergenceEstimate estimate_;
+  int last_iteration_ = 0;   // the cap
+  std::string stop_reason_;  // why a stopped run stopped
   std::unique_ptr<CsvWriter> history_;
   IterationStatus status_;
   int checkpoint_iteration_ = -1;
@@ -261,31 +293,37 @@ void Run::record(const IterationStatus& status, bool converged, bool diverged) {
   for (double m : status.model_normalised) row.push_back(m);
   for (double a : {status.absolute.u, status.absolute.v, status.absolute.continuity}) row.push_back(a);
   for (const auto& m : status.model_absolute) row.push_back(m.value);
-  for (double a : {double(status.momentum_iterations), double(status.pressure_iterations), elapsed()})
-    row.push_back(a);
+  row.push_back(double(status.momentum_iterations));
+  row.push_back(double(status.pressure_iterations));
+  if (!model_.residuals().empty()) row.push_back(double(model_.linear_iterations()));
+  row.push_back(elapsed());
   history_->row(row);
+  std::vector<double> residuals{r.u, r.v, r.continuity};
+  residuals.insert(residuals.end(), status.model_normalised.begin(), status.model_normalised.end());
+  estimate_.add(status.iteration, residuals, elapsed());
   const int every = spec_.iterations.report_every;
-  if (!options_.quiet && every > 0 &&
-      (status.iteration % every == 0 || status.iteration == 1 || converged || diverged)) {
-    std::printf("%8d %12.4e %12.4e %12.4e", status.iteration, r.u, r.v, r.continuity);
-    for (double m : status.model_normalised) std::printf(" %12.4e", m);
-    const bool solves_ok = status.linear_solves_converged && model_.linear_solves_converged();
-    std::printf(" %8.1f%s\n", elapsed(), solves_ok ? "" : "  (a linear solve broke down)");
-    std::fflush(stdout);
-  }
+  const bool solves_ok = status.linear_solves_converged && model_.linear_solves_converged();
+  const std::string text =
+      progress_row(status.iteration, residuals, elapsed(), estimate_, last_iteration_ - status.iteration,
+                   solves_ok ? "" : "(a linear solve broke down)");
+  if (every > 0 && (status.iteration % every == 0 || status.iteration == 1 || converged || diverged))
+    progress_->line(text);
+  else
+    progress_->status(text);
 }
 
 int Run::execute(int first_iteration, const StopSignals& signals) {
+  const int last = first_iteration + spec_.iterations.max;  // the cap counts this run's iterations
+  last_iteration_ = last;
   if (rank_ == 0) {
     history_ = open_history(dir_, model_, first_iteration);
-    std::printf("%8s %12s %12s %12s", "iter", "res_u", "res_v", "res_mass");
-    for (const auto& m : model_.residuals()) std::printf(" %12s", ("res_" + m.name).c_str());
-    std::printf(" %8s\n", "time_s");
+    std::vector<std::string> names{"u", "v", "mass"};
+    for (const auto& m : model_.residuals()) names.push_back(m.name);
+    if (spec_.iterations.report_every > 0) progress_->line(progress_header(names));
   }
   status_.iteration = first_iteration;
   watch_.keep(first_iteration);  // the start (restart or initial fields) is the first good state
   checkpoint_time_ = elapsed();
-  const int last = first_iteration + spec_.iterations.max;  // the cap counts this run's iterations
   const std::optional<double> walltime = options_.walltime ? options_.walltime : spec_.checkpoint.walltime;
   const double cadence = spec_.checkpoint.every_seconds;
   bool converged = false, diverged = false;
@@ -307,12 +345,8 @@ int Run::execute(int first_iteration, const StopSignals& signals) {
     }
     if (converged || diverged) break;
     if (spec_.output.fields_every > 0 && status_.iteration % spec_.output.fields_every == 0) {
-      std::vector<NamedScalar> scalars{{"pressure", &solver_.pressure()},
-                                       {"eddy_viscosity", &solver_.eddy_viscosity()},
-                                       {"solid", &solver_.solid()}};
-      for (const auto& [name, field] : model_.output_fields()) scalars.push_back({name, field});
-      write_vtk_fields(solver_.grid(), scalars, {{"velocity", &solver_.velocity()}}, dir_.string(),
-                       "fields_" + std::to_string(status_.iteration));
+      write_fields(solver_, model_, dir_, "fields_" + std::to_string(status_.iteration));
+      if (rank_ == 0) write_field_series(dir_, -1);
     }
     if (spec_.checkpoint.every > 0 && status_.iteration % spec_.checkpoint.every == 0) checkpoint();
     // All ranks decide together: stop (2 a signal on some rank, 1 when one more iteration plus a
@@ -332,6 +366,9 @@ int Run::execute(int first_iteration, const StopSignals& signals) {
   summary_.residual_u = status_.normalised.u;
   summary_.residual_v = status_.normalised.v;
   summary_.residual_continuity = status_.normalised.continuity;
+  summary_.model_residuals.clear();
+  for (size_t k = 0; k < status_.model_normalised.size() && k < model_.residuals().size(); ++k)
+    summary_.model_residuals.emplace_back(model_.residuals()[k].name, status_.model_normalised[k]);
   if (diverged) {
     // The last checkpoint stays; no fields, so nothing on disk looks like a result. The fields of
     // the last good iteration go to a file of their own.
@@ -343,46 +380,27 @@ int Run::execute(int first_iteration, const StopSignals& signals) {
   }
   // A checkpoint at the end of every run that did not diverge, so it can be continued.
   if (checkpoint_iteration_ != status_.iteration) checkpoint();
-  if (!stop_reason.empty() && rank_ == 0) {
-    std::printf("wallrans: stopped at iteration %d (%s); checkpoint written\n", status_.iteration,
-                stop_reason.c_str());
-  }
   write_outputs();
   check_wall_resolution();
   const RunStatus status = converged              ? RunStatus::converged
                            : !stop_reason.empty() ? RunStatus::stopped
                                                   : RunStatus::capped;
+  stop_reason_ = stop_reason;
   finish(status, stop_reason.empty() ? "" : "stopped by " + stop_reason);
   return exit_code(status);
 }
 
 void Run::write_outputs() {
-  std::vector<NamedScalar> scalars{{"pressure", &solver_.pressure()},
-                                   {"eddy_viscosity", &solver_.eddy_viscosity()},
-                                   {"solid", &solver_.solid()}};
-  for (const auto& [name, field] : model_.output_fields()) scalars.push_back({name, field});
-  write_vtk_fields(solver_.grid(), scalars, {{"velocity", &solver_.velocity()}}, dir_.string(), "fields");
-  if (spec_.output.wall_data) {
-    std::vector<std::vector<double>> rows;
-    for (const auto& w : solver_.wall_samples()) {
-      const double yplus =
-          w.first_cell_distance * std::sqrt(std::abs(w.shear_stress)) / spec_.flow.kinematic_viscosity;
-      rows.push_back({w.centre.x, w.centre.y, w.cf, w.cp, w.shear_stress, w.first_cell_distance, yplus});
-    }
-    const auto all = gather_rows(comm_, rows, 7);
-    if (rank_ == 0) {
-      CsvWriter wall((dir_ / "wall.csv").string(),
-                     {"x", "y", "cf", "cp", "wall_shear_stress", "first_cell_distance", "first_cell_y_plus"});
-      for (const auto& row : all) wall.row(row);
-    }
-  }
-  write_profiles(spec_, solver_, model_, dir_, comm_);
+  RunOutputs outputs = write_run_outputs(spec_, boundaries_, solver_, model_, dir_, status_.iteration, comm_);
   // Mass balance and periodic driving (collective), into the summary and onto the terminal.
   const bool periodic = spec_.periodic.axis == PeriodicAxis::x;
   const MassBalance balance = solver_.mass_balance();
   const PeriodicDriving driving = solver_.periodic_driving();
   summary_.flow_report_json = flow_report_json(balance, driving, periodic);
-  if (rank_ == 0) std::fputs(flow_report_text(balance, driving, periodic).c_str(), stdout);
+  if (rank_ != 0) return;
+  progress_->line(flow_report_text(balance, driving, periodic));
+  for (const std::string& warning : outputs.warnings) progress_->line(warning);
+  summary_.answers = std::move(outputs.answers);
 }
 
 void Run::finish(RunStatus status, const std::string& detail) {
@@ -393,26 +411,29 @@ void Run::finish(RunStatus status, const std::string& detail) {
   if (rank_ == 0) failure = attempt([&] { write_summary(dir_, summary_); });
   agree(comm_, failure);
   if (rank_ != 0) return;
-  switch (status) {
-    case RunStatus::diverged:
-      std::printf("wallrans: diverged: %s (residuals.csv and earlier checkpoints kept)\n", detail.c_str());
-      break;
-    case RunStatus::converged:
-    case RunStatus::stopped:
-    case RunStatus::capped:
-      std::printf("wallrans: %s after %d iterations (%.1f s); results in %s\n",
-                  status == RunStatus::converged ? "converged"
-                  : status == RunStatus::stopped ? "stopped early (restart from the last checkpoint)"
-                                                 : "NOT converged (iteration cap reached)",
-                  status_.iteration, summary_.wall_time_s, dir_.string().c_str());
-      std::printf(
-          "note: RANS results are model-dependent: validate them for your case and defer to applicable "
-          "codes and licensed engineering practice.\n");
-      break;
-    default:
-      break;
+  if (status == RunStatus::diverged) {
+    progress_->final("wallrans: diverged: " + detail + " (residuals.csv and earlier checkpoints kept)");
+    return;
   }
-  std::fflush(stdout);
+  if (summary_.answers)
+    for (const std::string& line : answers_table(*summary_.answers)) progress_->line(line);
+  progress_->line(
+      "note: RANS results are model-dependent: validate them for your case and defer to applicable codes and "
+      "licensed engineering practice.");
+  // The final line, the only one under --quiet.
+  char time[32];
+  std::snprintf(time, sizeof time, " (%.1f s); results in ", summary_.wall_time_s);
+  const std::string n = std::to_string(status_.iteration);
+  const std::string what =
+      status == RunStatus::converged ? "converged after " + n + " iterations"
+      : status == RunStatus::stopped
+          ? "stopped at iteration " + n + " (" + stop_reason_ + "); checkpoint written, restart from it"
+          : "NOT converged (iteration cap reached) after " + n + " iterations";
+  const std::string restart = summary_.restarted_from.empty()
+                                  ? ""
+                                  : "; restarted from " + summary_.restarted_from + " at iteration " +
+                                        std::to_string(summary_.first_iteration);
+  progress_->final("wallrans: " + what + restart + time + dir_.string());
 }
 
 }  // namespace
@@ -495,49 +516,61 @@ int run_case(MPI_Comm comm, const RunOptions& options) {
   summary.cells_x = grid.cells_x();
   summary.cells_y = grid.cells_y();
   summary.first_iteration = summary.iteration = first_iteration;
+  if (first_iteration > 0) summary.restarted_from = *s.restart;
   summary.residual_drop = spec.iterations.residual_drop;
+  summary.model_variant = spec.turbulence.variant;
+  summary.grid_source = spec.grid.file.empty() ? std::string("generator ") + to_string(spec.grid.generator)
+                                               : "file " + spec.grid.file;
+  summary.reference_velocity = spec.flow.reference_velocity;
+  summary.reference_velocity_given = spec.flow.reference_velocity_given;
+  std::unique_ptr<ProgressOutput> progress;  // rank 0
   std::optional<Failure> failure;
   if (rank == 0) {
     failure = attempt([&] {
       write_file_atomically(directory.path() / "case.resolved.yaml", resolved_case_yaml(spec),
                             "run directory");
       write_summary(directory.path(), summary);
+      progress = std::make_unique<ProgressOutput>(directory.path(), first_iteration > 0, options.quiet,
+                                                  stdout_is_terminal());
       if (options.resume && !s.restart)
-        std::printf("wallrans: note: no checkpoint of this case in %s; starting from iteration 0\n",
-                    directory.path().c_str());
+        progress->line("wallrans: note: no checkpoint of this case in " + directory.path().string() +
+                       "; starting from iteration 0");
       if (first_iteration > 0)
-        std::printf("wallrans: restarted from %s at iteration %d\n", s.restart->c_str(), first_iteration);
-      std::fputs(grid_report.c_str(), stdout);
-      std::printf("wallrans: case '%s', %d x %d cells on %d rank(s), model %s\n", spec.title.c_str(),
-                  grid.cells_x(), grid.cells_y(), summary.ranks, model->name().c_str());
+        progress->line("wallrans: restarted from " + *s.restart + " at iteration " +
+                       std::to_string(first_iteration));
+      for (const std::string& line : lines_of(grid_report)) progress->line(line);
+      progress->line(
+          "wallrans: case '" + spec.title + "', " + std::to_string(grid.cells_x()) + " x " +
+          std::to_string(grid.cells_y()) + " cells on " + std::to_string(summary.ranks) + " rank(s), model " +
+          model->name() + "; Cf and Cp with U_ref = " + format_number(spec.flow.reference_velocity) + " m/s" +
+          (spec.flow.reference_velocity_given ? "" : " (default: flow.reference_velocity not set)"));
     });
   }
   agree(comm, failure);
   // A fresh run may start from the solution on coarser grids (iterations.coarse_grids).
   if (first_iteration == 0 && spec.iterations.coarse_grids > 0) {
     const auto runs = start_from_coarser_grids(spec, grid, solver, *model, [&](const CoarseGridRun& run) {
-      if (rank == 0 && !options.quiet)
-        std::printf("wallrans: coarse grid %d x %d: %s after %d iterations (%.1f s)\n", run.cells_x,
-                    run.cells_y,
-                    run.converged  ? "converged"
-                    : run.diverged ? "diverged; the case's grid starts from the uniform field"
-                                   : "iteration budget spent; its state is used",
-                    run.iterations, run.seconds);
+      if (rank != 0) return;
+      char seconds[32];
+      std::snprintf(seconds, sizeof seconds, " iterations (%.1f s)", run.seconds);
+      progress->line("wallrans: coarse grid " + std::to_string(run.cells_x) + " x " +
+                     std::to_string(run.cells_y) + ": " +
+                     (run.converged  ? "converged"
+                      : run.diverged ? "diverged; the case's grid starts from the uniform field"
+                                     : "iteration budget spent; its state is used") +
+                     " after " + std::to_string(run.iterations) + seconds);
     });
     // Work in iterations of the case's grid: each coarse grid's iterations weighted by its share
     // of the cells, plus the iteration on the case's grid that measured the residual references.
-    std::string json = "[";
     summary.coarse_work = runs.empty() ? 0.0 : 1.0;
     for (const CoarseGridRun& c : runs) {
-      json += std::string(json.size() > 1 ? ", " : "") + "{\"cells\": [" + std::to_string(c.cells_x) + ", " +
-              std::to_string(c.cells_y) + "], \"iterations\": " + std::to_string(c.iterations) +
-              ", \"converged\": " + (c.converged ? "true" : "false") + "}";
+      summary.coarse_grids.push_back({c.cells_x, c.cells_y, c.iterations, c.converged});
       summary.coarse_work += double(c.iterations + c.reference_iterations) * c.cells_x * c.cells_y /
                              (double(grid.cells_x()) * grid.cells_y());
     }
-    summary.coarse_grids_json = json + "]";
   }
-  Run run(comm, options, spec, *model, solver, checkpoints, directory, summary, start);
+  Run run(comm, options, spec, *s.boundaries, *model, solver, checkpoints, directory, summary, start,
+          progress.get());
   try {
     return run.execute(first_iteration, signals);
   } catch (const std::exception& e) {

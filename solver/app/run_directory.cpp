@@ -55,12 +55,14 @@ std::optional<OutputFile> classify(std::string name) {
     file.kind = FileKind::description;
     return file;
   }
-  if (name == "residuals.csv" || name == "case.resolved.yaml" || name == identity_file_name) {
+  if (name == "residuals.csv" || name == "case.resolved.yaml" || name == identity_file_name ||
+      name == "progress.log") {
     file.kind = FileKind::kept;
     return file;
   }
+  const bool is_profile = name.starts_with("profile_") && name.ends_with(".csv");
   if (name == "fields.pvts" || number_between(name, "fields_", ".vts") >= 0 || name == "wall.csv" ||
-      name == "summary.json" || number_between(name, "profile_", ".csv") >= 0 ||
+      name == "summary.json" || is_profile || name == "fields.pvd" ||
       name == "diverged_fields.pvts" || number_between(name, "diverged_fields_", ".vts") >= 0) {
     file.kind = FileKind::fields;
     file.iteration = -1;

@@ -40,8 +40,8 @@ struct RunDirectoryRequest {
 DirectoryContent inspect_run_directory(MPI_Comm comm, const RunDirectoryRequest& request);
 
 /// Local. Whether `name` is a file a run writes into its directory (checkpoints and their
-/// descriptions, fields, residuals.csv, wall.csv, profiles, summary.json, case.resolved.yaml,
-/// the identity file, and the temporary copies of each).
+/// descriptions, fields and fields.pvd, residuals.csv, progress.log, wall.csv, profiles,
+/// summary.json, case.resolved.yaml, the identity file, and the temporary copies of each).
 bool is_run_output(const std::string& name);
 
 class RunDirectory {

@@ -1,10 +1,7 @@
 #include "app/run_summary.hpp"
 
-#include <cerrno>
-#include <cmath>
 #include <cstdio>
-#include <sstream>
-#include <system_error>
+#include <nlohmann/json.hpp>
 
 #include "core/atomic_file.hpp"
 #include "core/error.hpp"
@@ -13,25 +10,51 @@ namespace wallrans {
 
 namespace {
 
+using Json = nlohmann::ordered_json;
+
 constexpr const char* caution =
     "RANS results are model-dependent: validate them for your case and defer to applicable codes "
     "and licensed engineering practice.";
 
-std::string json_number(double x) {
-  if (!std::isfinite(x)) return "null";
-  char buffer[40];
-  std::snprintf(buffer, sizeof buffer, "%.10g", x);
-  return buffer;
+Json pair(Vec2 v) { return Json::array({v.x, v.y}); }
+
+Json wall_json(const WallAnswers& w) {
+  Json points = Json::array();
+  for (const ShearPoint& p : w.shear_points) {
+    points.push_back({{"kind", p.is_separation ? "separation" : "reattachment"},
+                      {"at", pair(p.at)},
+                      {"s", p.s},
+                      {"side", p.side}});
+  }
+  return Json{{"segment", w.segment},
+              {"name", w.name},
+              {"side", w.side},
+              {"line", w.line},
+              {"faces", w.n_faces},
+              {"length", w.length},
+              {"friction_force", pair(w.friction_force)},
+              {"pressure_force", pair(w.pressure_force)},
+              {"force", pair(w.friction_force + w.pressure_force)},
+              {"cf_mean", w.cf_mean},
+              {"cf_min", w.cf_min},
+              {"cf_min_at", pair(w.cf_min_at)},
+              {"cf_max", w.cf_max},
+              {"cf_max_at", pair(w.cf_max_at)},
+              {"first_cell_y_plus_max", w.y_plus_max},
+              {"first_cell_y_plus_max_at", pair(w.y_plus_max_at)},
+              {"separation_and_reattachment", points}};
 }
 
-std::string json_string(const std::string& s) {
-  std::string out = "\"";
-  for (char c : s) {
-    if (c == '"' || c == '\\') out += '\\';
-    if (static_cast<unsigned char>(c) < 0x20) continue;
-    out += c;
-  }
-  return out + "\"";
+Json periodic_json(const PeriodicAnswers& p) {
+  return Json{{"bulk_velocity", p.bulk_velocity},
+              {"u_tau", p.u_tau},
+              {"u_tau_from_wall_shear", p.u_tau_wall_shear},
+              {"re_tau", p.re_tau},
+              {"re_bulk", p.re_bulk},
+              {"cf_bulk", p.cf_bulk},
+              {"half_height", p.half_height},
+              {"mean_pressure_gradient", p.mean_pressure_gradient},
+              {"driving_force_per_unit_mass", p.driving_force}};
 }
 
 std::string json_strings(const std::vector<std::string>& list) {
@@ -80,32 +103,65 @@ int exit_code(RunStatus status) {
 
 std::string summary_json(const RunSummary& s) {
   const int code = exit_code(s.status);
-  std::ostringstream json;
-  json << "{\n  \"status\": " << json_string(to_string(s.status))
-       << ",\n  \"exit_code\": " << (code < 0 ? std::string("null") : std::to_string(code))
-       << ",\n  \"detail\": " << json_string(s.detail) << ",\n  \"title\": " << json_string(s.title)
-       << ",\n  \"case_file\": " << json_string(s.case_file) << ",\n  \"case_id\": " << json_string(s.case_id)
-       << ",\n  \"version\": " << json_string(WALLRANS_VERSION) << ",\n  \"host\": " << json_string(s.host)
-       << ",\n  \"pid\": " << s.pid << ",\n  \"started\": " << json_string(s.started)
-       << ",\n  \"ranks\": " << s.ranks << ",\n  \"cells\": [" << s.cells_x << ", " << s.cells_y
-       << "],\n  \"model\": " << json_string(s.model) << ",\n  \"first_iteration\": " << s.first_iteration
-       << ",\n  \"iterations\": " << s.iteration
-       << ",\n  \"converged\": " << (s.status == RunStatus::converged ? "true" : "false")
-       << ",\n  \"stopped_early\": " << (s.status == RunStatus::stopped ? "true" : "false")
-       << ",\n  \"checkpoint\": " << json_string(s.checkpoint)
-       << ",\n  \"coarse_grids\": " << s.coarse_grids_json << ",\n  \"work_in_fine_grid_iterations\": "
-       << json_number(s.iteration - s.first_iteration + s.coarse_work)
-       << ",\n  \"residuals\": {\"u\": " << json_number(s.residual_u)
-       << ", \"v\": " << json_number(s.residual_v)
-       << ", \"continuity\": " << json_number(s.residual_continuity)
-       << "},\n  \"residual_drop\": " << json_number(s.residual_drop) << s.flow_report_json
-       << ",\n  \"wall_time_s\": " << json_number(s.wall_time_s)
-       << ",\n  \"warnings\": " << json_strings(s.warnings)
-       << ",\n  \"diagnostic_file\": " << json_string(s.diagnostic_file)
-       << ",\n  \"wall_resolution\": {\"max_first_cell_y_plus\": " << json_number(s.max_first_cell_y_plus)
-       << ", \"at\": [" << json_number(s.max_y_plus_x) << ", " << json_number(s.max_y_plus_y) << "]}"
-       << ",\n  \"caution\": " << json_string(caution) << "\n}\n";
-  return json.str();
+  Json coarse = Json::array();
+  for (const CoarseGridSummary& c : s.coarse_grids) {
+    coarse.push_back({{"cells", Json::array({c.cells_x, c.cells_y})},
+                      {"iterations", c.iterations},
+                      {"converged", c.converged}});
+  }
+  Json residuals{{"u", s.residual_u}, {"v", s.residual_v}, {"continuity", s.residual_continuity}};
+  for (const auto& [name, value] : s.model_residuals) residuals[name] = value;
+  Json json{{"status", to_string(s.status)},
+            {"exit_code", code < 0 ? Json(nullptr) : Json(code)},
+            {"detail", s.detail},
+            {"title", s.title},
+            {"case_file", s.case_file},
+            {"case_id", s.case_id},
+            {"version", WALLRANS_VERSION},
+            {"host", s.host},
+            {"pid", s.pid},
+            {"started", s.started},
+            {"ranks", s.ranks},
+            {"cells", Json::array({s.cells_x, s.cells_y})},
+            {"model", s.model},
+            {"first_iteration", s.first_iteration},
+            {"restarted_from", s.restarted_from.empty() ? Json(nullptr) : Json(s.restarted_from)},
+            {"iterations", s.iteration},
+            {"converged", s.status == RunStatus::converged},
+            {"stopped_early", s.status == RunStatus::stopped},
+            {"checkpoint", s.checkpoint},
+            {"coarse_grids", coarse},
+            {"work_in_fine_grid_iterations", s.iteration - s.first_iteration + s.coarse_work},
+            {"residuals", residuals},
+            {"residual_drop", s.residual_drop},
+            {"wall_time_s", s.wall_time_s},
+            {"grid", {{"source", s.grid_source}, {"cells", Json::array({s.cells_x, s.cells_y})}}},
+            {"turbulence_model", {{"name", s.model}, {"variant", s.model_variant}}},
+            {"reference_velocity",
+             {{"value", s.reference_velocity},
+              {"from", s.reference_velocity_given ? "flow.reference_velocity"
+                                                  : "default (flow.reference_velocity not set)"}}}};
+  // The answers exist once the outputs are written (not while running, nor after divergence).
+  Json walls = nullptr, periodic = nullptr;
+  if (s.answers) {
+    walls = Json::array();
+    for (const WallAnswers& w : s.answers->walls) walls.push_back(wall_json(w));
+    if (s.answers->periodic) periodic = periodic_json(*s.answers->periodic);
+  }
+  json["warnings"] = s.warnings;
+  json["diagnostic_file"] = s.diagnostic_file;
+  json["wall_resolution"] = {{"max_first_cell_y_plus", s.max_first_cell_y_plus},
+                             {"at", Json::array({s.max_y_plus_x, s.max_y_plus_y})}};
+  // Mass balance and periodic driving: members written by app/flow_report.hpp.
+  if (!s.flow_report_json.empty()) {
+    const Json report = Json::parse("{" + s.flow_report_json.substr(1) + "}");
+    for (const auto& [key, value] : report.items()) json[key] = value;
+  }
+  json["walls"] = walls;
+  json["periodic"] = periodic;
+  json["caution"] = caution;
+  // Non-finite numbers (a residual before the first iteration) are written as null.
+  return json.dump(2, ' ', false, Json::error_handler_t::replace) + "\n";
 }
 
 void write_summary(const std::filesystem::path& directory, const RunSummary& summary) {

@@ -25,6 +25,7 @@ enum class BoundaryKind {
 struct FlowSpec {
   double kinematic_viscosity = 0.0;  ///< nu [m^2/s], required, > 0
   double reference_velocity = 1.0;   ///< U_ref for Cf, Cp, initial field [m/s], > 0
+  bool reference_velocity_given = false;  ///< the case file sets reference_velocity (reports say so)
   double reference_length = 1.0;     ///< L_ref for Reynolds number and reports [m], > 0
   double reference_pressure = 0.0;   ///< p_ref for Cp and default outflow pressure [m^2/s^2]
   Vec2 body_force{0.0, 0.0};         ///< uniform body force per unit mass [m/s^2]
@@ -144,7 +145,7 @@ struct OutputSpec {
   std::string directory = "out";
   int fields_every = 0;               ///< VTK files every N iterations (0 = only at the end)
   bool wall_data = true;              ///< write wall.csv (x, y, Cf, Cp, y+) at the end
-  std::vector<double> profiles_at_x;  ///< x stations [m] of profile_<k>.csv (y, y+, U+, nu_t/nu)
+  std::vector<double> profiles_at_x;  ///< x stations [m] of profile_x<x>.csv (io/profile_writer.hpp)
 };
 
 /// Checkpoints (parallel HDF5) and stopping within a wall-clock budget.
@@ -174,5 +175,6 @@ struct CaseSpec {
 
 const char* to_string(Side side);
 const char* to_string(BoundaryKind kind);
+const char* to_string(GridGenerator generator);
 
 }  // namespace wallrans

@@ -474,11 +474,14 @@ void FlowSolver::solve_momentum(IterationStatus& status) {
 
 namespace wallrans {
 
+Vec2 wall_tangent(Vec2 n) {
+  const Vec2 t{-n.y, n.x};
+  return t.x < 0.0 || (t.x == 0.0 && t.y < 0.0) ? -1.0 * t : t;
+}
+
 double FlowSolver::wall_shear_stress(size_t k) const {
   const BoundaryFace& f = bfaces_[k];
-  const Vec2 n = (1.0 / norm(f.area)) * f.area;
-  Vec2 t{-n.y, n.x};
-  if (t.x < 0.0 || (t.x == 0.0 && t.y < 0.0)) t = -1.0 * t;
+  const Vec2 t = wall_tangent((1.0 / norm(f.area)) * f.area);
   // Velocity derivative into the fluid, second order (see normal_derivative).
   const double du = -normal_derivative(vel_.x, grad_u_, u_b_[k], f);
   const double dv = -normal_derivative(vel_.y, grad_v_, v_b_[k], f);
@@ -495,7 +498,8 @@ std::vector<WallSample> FlowSolver::wall_samples() const {
     const double tau = wall_shear_stress(k);
     const double s1 = dot(f.centre - grid_.centre(f.i, f.j), n);
     out.push_back({f.side, f.index, f.on_solid, f.centre, tau, tau / dynamic,
-                   (p_b_[k] - spec_.flow.reference_pressure) / dynamic, s1});
+                   (p_b_[k] - spec_.flow.reference_pressure) / dynamic, s1, f.segment, f.i, f.j, n,
+                   wall_tangent(n), norm(f.area), p_b_[k]});
   }
   return out;
 }

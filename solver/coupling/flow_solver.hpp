@@ -49,6 +49,12 @@ struct WallSample {
   double cf;                   ///< 2 tau / U_ref^2
   double cp;                   ///< (p_w - p_ref) / (U_ref^2 / 2)
   double first_cell_distance;  ///< normal distance wall -> first cell centre [m]
+  int segment = -1;            ///< index into BoundaryMap::segments() (the solid wall is the last)
+  int cell_i = 0, cell_j = 0;  ///< the fluid cell the face belongs to
+  Vec2 normal;                 ///< unit normal out of the fluid (into the wall)
+  Vec2 tangent;                ///< unit tangent of shear_stress: (-n.y, n.x), turned so that t.x >= 0
+  double length = 0.0;         ///< face length [m] (area per unit span)
+  double pressure = 0.0;       ///< kinematic pressure at the face p_w [m^2/s^2]
 };
 
 /// The driving of a streamwise-periodic case (periodic.axis x).
@@ -67,6 +73,9 @@ struct MassBalance {
   /// sum of the inflows through the boundary (0 in a closed domain).
   double through_flow = 0.0;
 };
+/// Local. The tangent of wall quantities at a face with unit normal n: (-n.y, n.x), turned so
+/// that t.x > 0, or t.y > 0 on a face normal to x.
+Vec2 wall_tangent(Vec2 n);
 
 /// Everything the solver needs to continue bit-identically from a checkpoint, borrowed.
 struct SolverRestartState {

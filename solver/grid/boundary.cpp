@@ -29,6 +29,24 @@ const char* to_string(Side side) {
   return "?";
 }
 
+const char* to_string(GridGenerator generator) {
+  switch (generator) {
+    case GridGenerator::channel:
+      return "channel";
+    case GridGenerator::cavity:
+      return "cavity";
+    case GridGenerator::plate:
+      return "plate";
+    case GridGenerator::skewed_box:
+      return "skewed_box";
+    case GridGenerator::step:
+      return "step";
+    case GridGenerator::hill_channel:
+      return "hill_channel";
+  }
+  return "?";
+}
+
 const char* to_string(BoundaryKind kind) {
   switch (kind) {
     case BoundaryKind::wall:

@@ -57,23 +57,7 @@ const char* name_of(const char* name) { return name; }
 const char* name_of(Side side) { return to_string(side); }
 const char* name_of(BoundaryKind kind) { return to_string(kind); }
 
-const char* name_of(GridGenerator generator) {
-  switch (generator) {
-    case GridGenerator::channel:
-      return "channel";
-    case GridGenerator::cavity:
-      return "cavity";
-    case GridGenerator::plate:
-      return "plate";
-    case GridGenerator::skewed_box:
-      return "skewed_box";
-    case GridGenerator::step:
-      return "step";
-    case GridGenerator::hill_channel:
-      return "hill_channel";
-  }
-  return "?";
-}
+const char* name_of(GridGenerator generator) { return to_string(generator); }
 
 const char* name_of(PeriodicAxis axis) { return axis == PeriodicAxis::x ? "x" : "none"; }
 
@@ -139,6 +123,7 @@ FlowSpec read_flow(const Value& value) {
       section.require("kinematic_viscosity", positive_number).number(positive_number, is_positive);
   flow.reference_velocity =
       number_or(section, "reference_velocity", flow.reference_velocity, positive_number, is_positive);
+  flow.reference_velocity_given = section.has("reference_velocity");
   flow.reference_length =
       number_or(section, "reference_length", flow.reference_length, positive_number, is_positive);
   flow.reference_pressure = number_or(section, "reference_pressure", flow.reference_pressure, any_number);

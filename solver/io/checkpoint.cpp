@@ -233,8 +233,21 @@ CheckpointMetadata write_checkpoint(const Grid& grid, const std::string& path,
     write(faces.get(), array.name, face_block(layout, order), sorted);
   }
   const Block block = node_block(grid);
-  write(nodes.get(), "x", block, node_values(grid, block, true));
-  write(nodes.get(), "y", block, node_values(grid, block, false));
+  const std::vector<double> x = node_values(grid, block, true), y = node_values(grid, block, false);
+  write(nodes.get(), "x", block, x);
+  write(nodes.get(), "y", block, y);
+  // The same nodes interleaved, (cells_y + 1) x (cells_x + 1) x 2: the geometry of the XDMF
+  // description (the XDMF-3 reader of a common viewer crashes on the two-array X_Y form).
+  Block pairs = block;
+  pairs.global.push_back(2);
+  pairs.start.push_back(0);
+  pairs.count.push_back(2);
+  std::vector<double> xy(2 * x.size());
+  for (size_t k = 0; k < x.size(); ++k) {
+    xy[2 * k] = x[k];
+    xy[2 * k + 1] = y[k];
+  }
+  write(nodes.get(), "xy", pairs, xy);
 
   agree(comm, attempt([&] {
           fields.reset();

@@ -66,7 +66,8 @@ std::string text_hash(const std::string& text);
 /// Collective over grid.comm(). Writes the checkpoint <path> with parallel HDF5 (MPI-IO driver):
 /// the metadata attributes, "/fields/<name>" for each cell array and "/boundary/<name>" for each
 /// boundary array (collective writes of each rank's owned cells and faces), and the node coordinates
-/// "/grid/x", "/grid/y" ((cells_y + 1) x (cells_x + 1), each rank writing a disjoint block). The
+/// "/grid/x", "/grid/y" ((cells_y + 1) x (cells_x + 1), each rank writing a disjoint block) and the
+/// same interleaved, "/grid/xy" ((cells_y + 1) x (cells_x + 1) x 2, x first). The
 /// file is written as "<path>.tmp", closed, fsynced and then renamed to <path> by rank 0, so a
 /// crash never leaves a torn file under <path>; rank 0 creates the parent directory if missing.
 /// Names must be non-empty, unique within their group and made of letters, digits, '_', '-' and
@@ -106,7 +107,8 @@ void read_checkpoint(const Grid& grid, const std::string& path, const std::vecto
 void verify_checkpoint_data(MPI_Comm comm, const std::string& path);
 
 /// Local (rank 0 calls it). Writes the XDMF (XML) description of a checkpoint written with these
-/// metadata: a 2-D curvilinear mesh ("2DSMesh", geometry X_Y) from "/grid/x" and "/grid/y" and
+/// metadata: a 2-D curvilinear mesh ("2DSMesh", geometry XY: the one interleaved array "/grid/xy",
+/// the form both XDMF readers of the common viewer open; X_Y crashes its XDMF-3 reader) and
 /// each "/fields/<name>" as a cell-centred scalar, referencing the HDF5 file by `h5_file_name`
 /// (a bare file name in the same directory, so the pair can be moved together). Written under a
 /// temporary name and renamed. Throws Error on failure or a name with '/' or ':'.

@@ -73,13 +73,15 @@ std::string escape_xml(const std::string& text) {
 }
 
 // XDMF 3 "DataItem" of doubles stored in the HDF5 file, dimensions slowest first.
-std::string data_item(const std::string& h5_file_name, const std::string& dataset, int n_slow, int n_fast) {
+std::string data_item(const std::string& h5_file_name, const std::string& dataset,
+                      const std::string& dimensions) {
   std::ostringstream out;
-  out << "<DataItem Dimensions=\"" << n_slow << ' ' << n_fast
-      << "\" NumberType=\"Float\" Precision=\"8\" Format=\"HDF\">" << escape_xml(h5_file_name) << ':'
-      << escape_xml(dataset) << "</DataItem>";
+  out << "<DataItem Dimensions=\"" << dimensions << "\" NumberType=\"Float\" Precision=\"8\" Format=\"HDF\">"
+      << escape_xml(h5_file_name) << ':' << escape_xml(dataset) << "</DataItem>";
   return out.str();
 }
+
+std::string dims(int n_slow, int n_fast) { return std::to_string(n_slow) + ' ' + std::to_string(n_fast); }
 
 }  // namespace
 
@@ -128,13 +130,12 @@ void write_checkpoint_xdmf(const std::string& xdmf_path, const std::string& h5_f
       << "      <Information Name=\"turbulence_model\" Value=\"" << escape_xml(metadata.model) << "\"/>\n"
       << "      <Information Name=\"written_at\" Value=\"" << escape_xml(metadata.written_at) << "\"/>\n"
       << "      <Topology TopologyType=\"2DSMesh\" Dimensions=\"" << ny + 1 << ' ' << nx + 1 << "\"/>\n"
-      << "      <Geometry GeometryType=\"X_Y\">\n"
-      << "        " << data_item(h5_file_name, "/grid/x", ny + 1, nx + 1) << "\n"
-      << "        " << data_item(h5_file_name, "/grid/y", ny + 1, nx + 1) << "\n"
+      << "      <Geometry GeometryType=\"XY\">\n"
+      << "        " << data_item(h5_file_name, "/grid/xy", dims(ny + 1, nx + 1) + " 2") << "\n"
       << "      </Geometry>\n";
   for (const std::string& name : field_names) {
     out << "      <Attribute Name=\"" << escape_xml(name) << "\" AttributeType=\"Scalar\" Center=\"Cell\">\n"
-        << "        " << data_item(h5_file_name, "/fields/" + name, ny, nx) << "\n"
+        << "        " << data_item(h5_file_name, "/fields/" + name, dims(ny, nx)) << "\n"
         << "      </Attribute>\n";
   }
   out << "    </Grid>\n"

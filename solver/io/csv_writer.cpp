@@ -1,9 +1,13 @@
 // CSV writing with checked stdio calls, and a strict reader that reports file:line.
 #include "io/csv_writer.hpp"
 
+#include <algorithm>
 #include <cerrno>
 #include <charconv>
+#include <cmath>
+#include <cstdio>
 #include <fstream>
+#include <limits>
 #include <string_view>
 #include <system_error>
 
@@ -33,44 +37,95 @@ std::vector<std::string_view> split_fields(std::string_view line) {
   }
 }
 
+bool is_plain_text(const std::string& text) { return text.find_first_of(",\"\r\n") == std::string::npos; }
+
+std::vector<CsvColumn> real_columns(std::vector<std::string> names) {
+  std::vector<CsvColumn> columns;
+  for (auto& name : names) columns.push_back({std::move(name), CsvType::real});
+  return columns;
+}
+
 }  // namespace
 
 CsvWriter::CsvWriter(std::string path, std::vector<std::string> columns)
+    : CsvWriter(std::move(path), real_columns(std::move(columns))) {}
+
+CsvWriter::CsvWriter(std::string path, std::vector<CsvColumn> columns)
     : path_(std::move(path)), columns_(std::move(columns)) {
   if (columns_.empty()) throw Error(path_ + ": a CSV file needs at least one column");
-  for (const auto& name : columns_) {
-    if (name.empty() || name.find_first_of(",\"\r\n") != std::string::npos) {
-      throw Error(path_ + ": column name '" + name +
+  for (const auto& column : columns_) {
+    if (column.name.empty() || !is_plain_text(column.name)) {
+      throw Error(path_ + ": column name '" + column.name +
                   "' must be non-empty and free of commas, quotes and line breaks");
     }
   }
   file_.reset(std::fopen(path_.c_str(), "w"));
   if (!file_) throw Error(path_ + ": cannot create CSV file: " + errno_text());
   std::string header;
-  for (size_t k = 0; k < columns_.size(); ++k) header += (k ? "," : "") + columns_[k];
-  header += '\n';
-  if (std::fputs(header.c_str(), file_.get()) < 0 || std::fflush(file_.get()) != 0) {
-    throw Error(path_ + ": cannot write CSV header: " + errno_text());
+  for (size_t k = 0; k < columns_.size(); ++k) {
+    if (k > 0) header += ',';
+    header += columns_[k].name;
   }
+  write_line(header);
+}
+
+std::string CsvWriter::format(size_t column, const CsvCell& cell) const {
+  const CsvColumn& c = columns_[column];
+  const std::string where = path_ + ": column '" + c.name + "': ";
+  if (c.type == CsvType::text) {
+    const auto* text = std::get_if<std::string>(&cell);
+    if (text == nullptr || !is_plain_text(*text))
+      throw Error(where + "expected a text without commas, quotes or line breaks");
+    return *text;
+  }
+  const auto* value = std::get_if<double>(&cell);
+  if (value == nullptr) throw Error(where + "expected a number, got a text");
+  char buffer[40];
+  if (c.type == CsvType::integer) {
+    // Whole numbers up to 2^53 are exact in a double.
+    if (!(std::abs(*value) <= 9007199254740992.0) || std::trunc(*value) != *value)
+      throw Error(where + "expected a whole number, got " + std::to_string(*value));
+    std::snprintf(buffer, sizeof buffer, "%lld", static_cast<long long>(*value));
+  } else {
+    std::snprintf(buffer, sizeof buffer, "%.16e", *value);
+  }
+  return buffer;
+}
+
+void CsvWriter::write_line(const std::string& line) {
+  if (std::fputs(line.c_str(), file_.get()) < 0 || std::fputc('\n', file_.get()) == EOF ||
+      std::fflush(file_.get()) != 0)
+    throw Error(path_ + ": cannot write CSV row: " + errno_text());
 }
 
 void CsvWriter::row(const std::vector<double>& values) {
-  if (values.size() != columns_.size()) {
-    throw Error(path_ + ": CSV row has " + std::to_string(values.size()) + " values, header has " +
-                std::to_string(columns_.size()) + " columns");
-  }
-  for (size_t k = 0; k < values.size(); ++k) {
-    if (std::fprintf(file_.get(), k + 1 < values.size() ? "%.16e," : "%.16e\n", values[k]) < 0) {
-      throw Error(path_ + ": cannot write CSV row: " + errno_text());
-    }
-  }
-  if (std::fflush(file_.get()) != 0) throw Error(path_ + ": cannot write CSV row: " + errno_text());
+  mixed_row(std::vector<CsvCell>(values.begin(), values.end()));
 }
 
-CsvTable read_csv(const std::string& path) {
+void CsvWriter::mixed_row(const std::vector<CsvCell>& cells) {
+  if (cells.size() != columns_.size()) {
+    throw Error(path_ + ": CSV row has " + std::to_string(cells.size()) + " values, header has " +
+                std::to_string(columns_.size()) + " columns");
+  }
+  std::string line;
+  for (size_t k = 0; k < cells.size(); ++k) {
+    if (k > 0) line += ',';
+    line += format(k, cells[k]);
+  }
+  write_line(line);
+}
+
+size_t CsvTable::column(const std::string& name) const {
+  const auto found = std::find(columns.begin(), columns.end(), name);
+  if (found == columns.end()) throw InputError("CSV table: expected a column '" + name + "', got none");
+  return static_cast<size_t>(found - columns.begin());
+}
+
+CsvTable read_csv(const std::string& path, const std::vector<std::string>& text_columns) {
   std::ifstream in(path);
   if (!in) throw InputError(path + ": cannot open CSV file");
   CsvTable table;
+  std::vector<bool> is_text;
   std::string line;
   int line_number = 0;
   bool have_header = false;
@@ -84,6 +139,7 @@ CsvTable read_csv(const std::string& path) {
       for (const auto field : fields) {
         if (field.empty()) throw InputError(where + "empty column name in the header");
         table.columns.emplace_back(field);
+        is_text.push_back(std::find(text_columns.begin(), text_columns.end(), field) != text_columns.end());
       }
       have_header = true;
       continue;
@@ -92,8 +148,9 @@ CsvTable read_csv(const std::string& path) {
       throw InputError(where + "expected " + std::to_string(table.columns.size()) + " fields, got " +
                        std::to_string(fields.size()));
     }
-    std::vector<double> values(fields.size());
+    std::vector<double> values(fields.size(), std::numeric_limits<double>::quiet_NaN());
     for (size_t k = 0; k < fields.size(); ++k) {
+      if (is_text[k]) continue;
       const std::string_view field = fields[k];
       const auto [end, status] = std::from_chars(field.data(), field.data() + field.size(), values[k]);
       if (field.empty() || status != std::errc() || end != field.data() + field.size()) {
@@ -102,6 +159,7 @@ CsvTable read_csv(const std::string& path) {
       }
     }
     table.rows.push_back(std::move(values));
+    table.fields.emplace_back(fields.begin(), fields.end());
   }
   if (in.bad()) throw InputError(path + ": read error");
   if (!have_header) throw InputError(path + ":1: missing header line");

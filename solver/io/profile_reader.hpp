@@ -1,5 +1,5 @@
 // Reads an inflow profile table (CSV): the coordinate along a boundary side, the velocity u, v and
-// the turbulence-model variable, one row per point. The program's own profile_<k>.csv files have
+// the turbulence-model variable, one row per point. The program's own profile_x<x>.csv files have
 // these columns, so a precursor run can supply the inflow of another case.
 #pragma once
 

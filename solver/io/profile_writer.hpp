@@ -1,10 +1,13 @@
-// Profiles of a converged run along grid columns (profile_<k>.csv). Their columns x, y, u, v and
-// the model variable make them valid inflow tables (io/profile_reader.hpp) for another case.
+// Profiles of a run along grid columns at the stations output.profiles_at_x: profile_x<x>.csv,
+// each cell measured from the nearest wall of its column. Their columns y, u, v and the model
+// variable make them valid inflow tables (io/profile_reader.hpp) for another case.
 #pragma once
 
 #include <mpi.h>
 
 #include <filesystem>
+#include <string>
+#include <vector>
 
 #include "core/case_spec.hpp"
 #include "coupling/flow_solver.hpp"
@@ -12,15 +15,23 @@
 
 namespace wallrans {
 
-/// Collective. For each station of spec.output.profiles_at_x, writes `directory`/profile_<k>.csv
-/// (rank 0) along the fluid cells of the grid column containing it, measured from the column's
-/// lowest boundary face (the block's bottom face, or the face on top of solid cells below): x, y,
-/// wall_distance (to that face), y_plus, u_tangential, u_plus, nut_over_nu, u, v and the model's
-/// transported variable (model_variable_column(); absent for models without one), sorted by y.
-/// When that face is a no-slip wall, the first row is the face itself (its velocity, zero model
-/// variable: every model here has the wall value 0), so the table reaches the wall. Stations
-/// outside the grid or in an all-solid column are skipped with a warning.
-void write_profiles(const CaseSpec& spec, const FlowSolver& solver, const TurbulenceModel& model,
-                    const std::filesystem::path& directory, MPI_Comm comm);
+/// Local. The file name of the profile at station x: "profile_x<x>.csv" with x in "%.6g" form
+/// (e.g. profile_x0.5.csv, profile_x-0.25.csv, profile_x1e-05.csv).
+std::string profile_file_name(double x);
+
+/// Collective. For each station of spec.output.profiles_at_x, writes `directory`/profile_x<x>.csv
+/// (rank 0) along the fluid cells of the grid column containing it, sorted by y. Each cell is
+/// measured from the nearest wall face of the column that faces it (the block's bottom or top side,
+/// or a face next to a solid cell): x, y, wall_distance, y_plus, u_tangential (relative to the
+/// wall, along its tangent with t.x >= 0), u_plus, nut_over_nu, wall_x, wall_y (that face's
+/// centre), u, v and the model's transported variable (model_variable_column(); absent for models
+/// without one). Without a wall in the column the distance is from the column's bottom face and
+/// y+, U+ are NaN. When the column's lowest boundary face is a no-slip wall, the first row is that
+/// face itself (its velocity, zero model variable: every model here has the wall value 0), so the
+/// table reaches the wall. Returns the warnings (stations outside the grid or its fluid, or sharing
+/// a file name with an earlier one, are skipped) for rank 0 to print.
+std::vector<std::string> write_profiles(const CaseSpec& spec, const FlowSolver& solver,
+                                        const TurbulenceModel& model, const std::filesystem::path& directory,
+                                        MPI_Comm comm);
 
 }  // namespace wallrans

@@ -1,17 +1,20 @@
 // VTK XML output of cell fields. Each piece is serialised by VTK's structured-grid writer (raw
-// binary appended data); the small parallel index is written here directly, following VTK's
-// documented XML file format, because it needs only the gathered piece extents.
+// binary appended data); the small parallel index and the series file are written here
+// directly, following VTK's documented XML file format, because they need only names and extents.
 #include "io/vtk_writer.hpp"
 
+#include <petscdmda.h>
 #include <unistd.h>
 #include <vtkCellData.h>
 #include <vtkDoubleArray.h>
 #include <vtkIntArray.h>
 #include <vtkNew.h>
+#include <vtkPointData.h>
 #include <vtkPoints.h>
 #include <vtkStructuredGrid.h>
 #include <vtkXMLStructuredGridWriter.h>
 
+#include <array>
 #include <bit>
 #include <cerrno>
 #include <cstdio>
@@ -23,6 +26,7 @@
 
 #include "core/atomic_file.hpp"
 #include "core/error.hpp"
+#include "linear/petsc_handles.hpp"
 
 namespace wallrans {
 
@@ -105,6 +109,102 @@ void make_directory(const fs::path& directory) {
   }
 }
 
+// Cell values with a full layer of neighbour cells, the diagonal ones included (the grid's own
+// ghosts follow a star stencil and leave those out), for averaging to the nodes. A second DMDA
+// with the grid's layout and a box stencil does the exchange.
+class BoxGhosts {
+ public:
+  // Collective.
+  explicit BoxGhosts(const Grid& grid) : grid_(grid) {
+    PetscInt ranks_x = 0, ranks_y = 0;
+    check_petsc(DMDAGetInfo(grid.dm(), nullptr, nullptr, nullptr, nullptr, &ranks_x, &ranks_y, nullptr,
+                            nullptr, nullptr, nullptr, nullptr, nullptr, nullptr));
+    const PetscInt *cells_x = nullptr, *cells_y = nullptr;
+    check_petsc(DMDAGetOwnershipRanges(grid.dm(), &cells_x, &cells_y, nullptr));
+    check_petsc(DMDACreate2d(grid.comm(), grid.periodic_x() ? DM_BOUNDARY_PERIODIC : DM_BOUNDARY_NONE,
+                             DM_BOUNDARY_NONE, DMDA_STENCIL_BOX, grid.cells_x(), grid.cells_y(), ranks_x,
+                             ranks_y, 1, 1, cells_x, cells_y, dm_.out()));
+    check_petsc(DMSetUp(dm_.get()));
+    check_petsc(DMCreateGlobalVector(dm_.get(), global_.out()));
+    check_petsc(DMCreateLocalVector(dm_.get(), local_.out()));
+  }
+
+  // Collective. `field` over the owned cells and every neighbour cell, indexed like Grid::local.
+  std::vector<double> values(const Field& field) {
+    PetscScalar** owned = nullptr;
+    check_petsc(DMDAVecGetArray(dm_.get(), global_.get(), &owned));
+    for (int j = grid_.y_begin(); j < grid_.y_end(); ++j)
+      for (int i = grid_.x_begin(); i < grid_.x_end(); ++i) owned[j][i] = field(i, j);
+    check_petsc(DMDAVecRestoreArray(dm_.get(), global_.get(), &owned));
+    check_petsc(DMGlobalToLocal(dm_.get(), global_.get(), INSERT_VALUES, local_.get()));
+    std::vector<double> out(grid_.n_ghosted(), 0.0);
+    const PetscScalar* const* ghosted = nullptr;
+    check_petsc(DMDAVecGetArrayRead(dm_.get(), local_.get(), &ghosted));
+    for (int j = grid_.gy_begin(); j < grid_.gy_end(); ++j)
+      for (int i = grid_.gx_begin(); i < grid_.gx_end(); ++i) out[grid_.local(i, j)] = ghosted[j][i];
+    check_petsc(DMDAVecRestoreArrayRead(dm_.get(), local_.get(), &ghosted));
+    return out;
+  }
+
+ private:
+  const Grid& grid_;
+  OwnedDm dm_;
+  OwnedVec global_, local_;
+};
+
+// Local. The average of `cells` (BoxGhosts::values) at the nodes of this rank's piece, in VTK
+// point order (i fastest): over the cells around each node that exist (a periodic x direction
+// wraps) and are not excluded (`excluded` non-zero), or over all of them if none is left.
+std::vector<double> node_averages(const Grid& grid, const std::vector<double>& cells,
+                                  const std::vector<double>* excluded) {
+  std::vector<double> nodes;
+  nodes.reserve(static_cast<size_t>(grid.x_end() - grid.x_begin() + 1) * (grid.y_end() - grid.y_begin() + 1));
+  for (int j = grid.y_begin(); j <= grid.y_end(); ++j) {
+    for (int i = grid.x_begin(); i <= grid.x_end(); ++i) {
+      double sum_kept = 0.0, sum_all = 0.0;
+      int n_kept = 0, n_all = 0;
+      for (int cj = j - 1; cj <= j; ++cj) {
+        for (int ci = i - 1; ci <= i; ++ci) {
+          if (cj < 0 || cj >= grid.cells_y() || (!grid.periodic_x() && (ci < 0 || ci >= grid.cells_x())))
+            continue;
+          const size_t k = grid.local(ci, cj);
+          sum_all += cells[k];
+          ++n_all;
+          if (excluded == nullptr || (*excluded)[k] == 0.0) {
+            sum_kept += cells[k];
+            ++n_kept;
+          }
+        }
+      }
+      nodes.push_back(n_kept > 0 ? sum_kept / n_kept : sum_all / n_all);
+    }
+  }
+  return nodes;
+}
+
+// Point data of one piece: each array's node averages, in the order scalars, then vectors (x, y).
+struct PointArrays {
+  std::vector<std::vector<double>> scalars;
+  std::vector<std::array<std::vector<double>, 2>> vectors;
+};
+
+// Collective. The node averages of every array of a piece.
+PointArrays point_arrays(const Grid& grid, const std::vector<NamedScalar>& scalars,
+                         const std::vector<NamedVector>& vectors, const Field* excluded) {
+  BoxGhosts box(grid);
+  std::vector<double> mask;
+  if (excluded != nullptr) mask = box.values(*excluded);
+  const std::vector<double>* mask_or_null = excluded != nullptr ? &mask : nullptr;
+  PointArrays points;
+  for (const auto& scalar : scalars)
+    points.scalars.push_back(node_averages(grid, box.values(*scalar.field), mask_or_null));
+  for (const auto& vector : vectors) {
+    points.vectors.push_back({node_averages(grid, box.values(vector.field->x), mask_or_null),
+                              node_averages(grid, box.values(vector.field->y), mask_or_null)});
+  }
+  return points;
+}
+
 std::string piece_file_name(const std::string& basename, int rank) {
   return basename + "_" + std::to_string(rank) + ".vts";
 }
@@ -113,7 +213,7 @@ std::string piece_file_name(const std::string& basename, int rank) {
 // the owned cells' data. The DMDA's owned order (i fastest) is VTK's cell order, so Grid::owned
 // gives the VTK cell id.
 std::string piece_document(const Grid& grid, const std::vector<NamedScalar>& scalars,
-                           const std::vector<NamedVector>& vectors) {
+                           const std::vector<NamedVector>& vectors, const PointArrays& point_values) {
   const int i0 = grid.x_begin(), i1 = grid.x_end(), j0 = grid.y_begin(), j1 = grid.y_end();
   vtkNew<vtkStructuredGrid> piece;
   piece->SetExtent(i0, i1, j0, j1, 0, 0);
@@ -173,6 +273,28 @@ std::string piece_document(const Grid& grid, const std::vector<NamedScalar>& sca
   cell_data->AddArray(volume);
   cell_data->AddArray(index);
 
+  vtkPointData* point_data = piece->GetPointData();
+  const auto n_points = points->GetNumberOfPoints();
+  for (size_t k = 0; k < scalars.size(); ++k) {
+    vtkNew<vtkDoubleArray> array;
+    array->SetName(scalars[k].name.c_str());
+    array->SetNumberOfComponents(1);
+    array->SetNumberOfTuples(n_points);
+    for (vtkIdType p = 0; p < n_points; ++p)
+      array->SetValue(p, point_values.scalars[k][static_cast<size_t>(p)]);
+    point_data->AddArray(array);
+  }
+  for (size_t k = 0; k < vectors.size(); ++k) {
+    vtkNew<vtkDoubleArray> array;
+    array->SetName(vectors[k].name.c_str());
+    array->SetNumberOfComponents(3);
+    array->SetNumberOfTuples(n_points);
+    const auto& [x, y] = point_values.vectors[k];
+    for (vtkIdType p = 0; p < n_points; ++p)
+      array->SetTuple3(p, x[static_cast<size_t>(p)], y[static_cast<size_t>(p)], 0.0);
+    point_data->AddArray(array);
+  }
+
   vtkNew<vtkXMLStructuredGridWriter> writer;
   writer->SetInputData(piece);
   // Raw appended binary is the smallest uncompressed form; flow-field doubles barely compress, so
@@ -203,11 +325,15 @@ std::string index_document(const Grid& grid, const std::vector<NamedScalar>& sca
       << "\" header_type=\"UInt64\">\n"
       << "  <PStructuredGrid WholeExtent=\"0 " << grid.cells_x() << " 0 " << grid.cells_y()
       << " 0 0\" GhostLevel=\"0\">\n"
-      << "    <PCellData>\n";
+      << "    <PPointData>\n";
   auto declare = [&out](const char* type, const std::string& name, int n_components) {
     out << "      <PDataArray type=\"" << type << "\" Name=\"" << name << "\" NumberOfComponents=\""
         << n_components << "\"/>\n";
   };
+  for (const auto& scalar : scalars) declare("Float64", scalar.name, 1);
+  for (const auto& vector : vectors) declare("Float64", vector.name, 3);
+  out << "    </PPointData>\n"
+      << "    <PCellData>\n";
   for (const auto& scalar : scalars) declare("Float64", scalar.name, 1);
   for (const auto& vector : vectors) declare("Float64", vector.name, 3);
   declare("Float64", volume_name, 1);
@@ -230,20 +356,25 @@ std::string index_document(const Grid& grid, const std::vector<NamedScalar>& sca
 
 std::string write_vtk_fields(const Grid& grid, const std::vector<NamedScalar>& scalars,
                              const std::vector<NamedVector>& vectors, const std::string& directory,
-                             const std::string& basename) {
+                             const std::string& basename, const Field* excluded) {
   const MPI_Comm comm = grid.comm();
   const int rank = grid.rank();
   const fs::path folder = directory.empty() ? fs::path(".") : fs::path(directory);
   const fs::path index_path = folder / (basename + ".pvts");
 
-  agree(comm, attempt([&] { check_request(grid, scalars, vectors, basename); }),
+  agree(comm, attempt([&] {
+          check_request(grid, scalars, vectors, basename);
+          if (excluded != nullptr && excluded->data().size() != grid.n_ghosted())
+            throw Error("vtk output: the excluded-cell marker does not belong to this grid");
+        }),
         "checking the output request");
+  const PointArrays point_values = point_arrays(grid, scalars, vectors, excluded);
   std::string directory_error;
   if (rank == 0) directory_error = attempt([&] { make_directory(folder); });
   agree(comm, directory_error, "creating the output directory");
   agree(comm, attempt([&] {
           write_file_atomically(folder / piece_file_name(basename, rank),
-                                piece_document(grid, scalars, vectors), "vtk output");
+                                piece_document(grid, scalars, vectors, point_values), "vtk output");
         }),
         "writing its piece");
 
@@ -262,6 +393,26 @@ std::string write_vtk_fields(const Grid& grid, const std::vector<NamedScalar>& s
   }
   agree(comm, index_error, "writing the index file");
   return index_path.string();
+}
+
+void write_vtk_series(const std::string& path, const std::vector<SeriesEntry>& entries) {
+  std::ostringstream out;
+  out.precision(17);
+  out << "<?xml version=\"1.0\"?>\n"
+      << "<VTKFile type=\"Collection\" version=\"0.1\" byte_order=\""
+      << (std::endian::native == std::endian::little ? "LittleEndian" : "BigEndian") << "\">\n"
+      << "  <Collection>\n";
+  for (const SeriesEntry& entry : entries) {
+    if (!is_plain_name(entry.file)) {
+      throw Error(path + ": series file name '" + entry.file +
+                  "' must be non-empty, without control or XML markup characters");
+    }
+    out << "    <DataSet timestep=\"" << entry.time << "\" group=\"\" part=\"0\" file=\"" << entry.file
+        << "\"/>\n";
+  }
+  out << "  </Collection>\n"
+      << "</VTKFile>\n";
+  write_file_atomically(path, out.str(), "vtk series");
 }
 
 }  // namespace wallrans

@@ -11,6 +11,7 @@
 #include <chrono>
 #include <cstdlib>
 #include <fstream>
+#include <nlohmann/json.hpp>
 #include <random>
 #include <sstream>
 #include <stdexcept>
@@ -189,12 +190,9 @@ int history_rows(const fs::path& directory) {
 }
 
 std::string json_field(const fs::path& path, const std::string& key) {
-  const std::string text = read_text(path);
-  const std::string marker = "\"" + key + "\": \"";
-  const auto at = text.find(marker);
-  if (at == std::string::npos) return "";
-  const auto start = at + marker.size();
-  return text.substr(start, text.find('"', start) - start);
+  const auto json = nlohmann::json::parse(read_text(path), nullptr, false);
+  if (!json.is_object() || !json.contains(key) || !json[key].is_string()) return "";
+  return json[key].get<std::string>();
 }
 
 std::string this_host() {

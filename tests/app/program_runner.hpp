@@ -90,7 +90,8 @@ bool wait_until(const std::function<bool()>& condition, double seconds);
 /// The number of data rows in <directory>/residuals.csv (0 if it does not exist yet).
 int history_rows(const std::filesystem::path& directory);
 
-/// The value of the string field "key" in a JSON file written by wallrans ("" if absent).
+/// The value of the top-level string field "key" of a JSON file written by wallrans ("" if the
+/// file is missing or not JSON, or the field is absent or not a string).
 std::string json_field(const std::filesystem::path& path, const std::string& key);
 
 /// This machine's host name.

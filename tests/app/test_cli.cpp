@@ -1,6 +1,6 @@
 // The wallrans program end to end on bad input: every bad case file and command line must end
 // with exit status 2, exactly one stderr line "wallrans: error: <file>[:<line>]: ... expected ...",
-// and nothing written. Also `check` and `version` on good input.
+// and nothing written. Also `check`, `version` and the help of every command on good input.
 #include <gtest/gtest.h>
 
 #include <filesystem>
@@ -262,7 +262,21 @@ INSTANTIATE_TEST_SUITE_P(
         BadCommandLine{"no_command", {}, {"command"}},
         BadCommandLine{"unknown_command", {"frobnicate", "good.yaml"}, {"'frobnicate'"}},
         BadCommandLine{"two_case_files", {"run", "good.yaml", "good.yaml"}, {"one case file"}},
-        BadCommandLine{"no_case_file", {"check"}, {"one case file"}}),
+        BadCommandLine{"no_case_file", {"check"}, {"one case file"}},
+        BadCommandLine{
+            "walltime_not_a_number", {"run", "good.yaml", "--walltime", "1h"}, {"--walltime", "'1h'"}},
+        BadCommandLine{"walltime_zero", {"run", "good.yaml", "--walltime", "0"}, {"--walltime", "'0'"}},
+        BadCommandLine{"walltime_without_value", {"run", "good.yaml", "--walltime"}, {"--walltime"}},
+        BadCommandLine{"resume_and_restart",
+                       {"run", "good.yaml", "--resume", "--restart", "x.h5"},
+                       {"--resume", "--restart"}},
+        BadCommandLine{
+            "petsc_option_before_the_case", {"run", "-pressure_ksp_rtol", "1e-3"}, {"-pressure_ksp_rtol"}},
+        BadCommandLine{"option_before_the_command", {"--quiet", "run", "good.yaml"}, {"'--quiet'"}},
+        BadCommandLine{"write_grid_one_argument", {"write-grid", "good.yaml"}, {"write-grid", "got 1"}},
+        BadCommandLine{
+            "write_grid_option_of_run", {"write-grid", "good.yaml", "g.h5", "--quiet"}, {"'--quiet'"}},
+        BadCommandLine{"version_with_an_argument", {"version", "now"}, {"'now'"}}),
     [](const ::testing::TestParamInfo<BadCommandLine>& info) { return info.param.name; });
 
 TEST(Program, CheckDescribesValidCaseAndWritesNothing) {
@@ -280,6 +294,64 @@ TEST(Program, CheckDescribesValidCaseAndWritesNothing) {
   EXPECT_NE(result.out.find("valid"), std::string::npos) << result.out;
   EXPECT_NE(result.out.find("8 x 8 cells"), std::string::npos) << result.out;
   EXPECT_EQ(snapshot(run_directory), before);
+}
+
+// Typed options: --walltime takes decimals like checkpoint.walltime, and PETSc options follow our
+// own arguments (check makes every check of run and writes nothing).
+TEST(Program, CheckAcceptsDecimalWalltimeAndPetscOptions) {
+  const ScratchDirectory scratch("wallrans_cli_typed");
+  const fs::path run_directory = scratch.path() / "run";
+  write_text(run_directory / "good.yaml", good_case);
+  const auto before = snapshot(run_directory);
+  const ProgramResult result =
+      run_program(run_directory,
+                  {"check", "good.yaml", "--walltime", "2.5", "--max-iterations", "7", "--output-dir",
+                   "elsewhere", "-pressure_ksp_rtol", "1e-3", "-turbulence_ksp_type", "gmres"},
+                  scratch.path() / "logs", "typed");
+  EXPECT_EQ(result.exit_status, 0) << result.err;
+  EXPECT_EQ(result.err, "");
+  EXPECT_NE(result.out.find("elsewhere"), std::string::npos) << result.out;
+  EXPECT_EQ(snapshot(run_directory), before);
+}
+
+// The help of the program and of each command: exit 0, nothing on stderr, nothing written; the
+// help of run and check lists every option, the PETSc prefixes and (run) the outputs.
+TEST(Program, HelpOfEveryCommandListsItsOptions) {
+  const ScratchDirectory scratch("wallrans_cli_help");
+  const auto before = snapshot(scratch.path());
+  const std::vector<std::string> run_options = {
+      "--output-dir",      "--max-iterations", "--quiet",    "--restart",  "--resume",
+      "--replace-results", "--walltime",       "-momentum_", "-pressure_", "-turbulence_"};
+  const std::vector<std::string> outputs = {"summary.json", "progress.log",      "residuals.csv",
+                                            "fields.pvd",   "wall.csv",          "profile_x",
+                                            "checkpoint_",  "case.resolved.yaml"};
+  struct Help {
+    std::vector<std::string> arguments;
+    std::vector<std::string> mentions;
+  };
+  std::vector<std::string> run_mentions = run_options;
+  run_mentions.insert(run_mentions.end(), outputs.begin(), outputs.end());
+  const std::vector<Help> helps = {
+      {{"--help"}, {"run", "check", "write-grid", "version", "Exit codes"}},
+      {{"-h"}, {"run", "check", "write-grid", "version"}},
+      {{"run", "--help"}, run_mentions},
+      {{"run", "configs/none.yaml", "--help"}, run_options},
+      {{"check", "--help"}, run_options},
+      {{"write-grid", "--help"}, {"CASE.yaml GRID.h5", "docs/grid-file.md"}},
+      {{"version", "--help"}, {"version"}},
+  };
+  for (const Help& help : helps) {
+    const ProgramResult result = run_program(scratch.path(), help.arguments, scratch.path() / "logs", "help");
+    std::string label;
+    for (const auto& a : help.arguments) label += a + " ";
+    EXPECT_EQ(result.exit_status, 0) << label << result.err;
+    EXPECT_EQ(result.err, "") << label;
+    for (const auto& mention : help.mentions)
+      EXPECT_NE(result.out.find(mention), std::string::npos) << label << ": no '" << mention << "' in\n"
+                                                             << result.out;
+  }
+  fs::remove_all(scratch.path() / "logs");
+  EXPECT_EQ(snapshot(scratch.path()), before);
 }
 
 TEST(Program, VersionPrintsTheBuildVersion) {

@@ -1,11 +1,13 @@
 // The files a real `wallrans run` leaves behind, read with independent readers (VTK's own parallel
-// reader, the CSV reader): a small lid-driven cavity at Re = U_lid L / nu = 100 on 2 ranks.
+// reader, the CSV reader, a JSON parser): a small lid-driven cavity at Re = U_lid L / nu = 100 on 2
+// ranks.
 // Every assertion follows from the case definition or from the physics of this flow, never
 // from numbers the program produced in an earlier run.
 #include <gtest/gtest.h>
 #include <vtkCellData.h>
 #include <vtkDataArray.h>
 #include <vtkNew.h>
+#include <vtkPointData.h>
 #include <vtkStructuredGrid.h>
 #include <vtkXMLPStructuredGridReader.h>
 
@@ -14,6 +16,7 @@
 #include <cmath>
 #include <filesystem>
 #include <memory>
+#include <nlohmann/json.hpp>
 #include <sstream>
 #include <stdexcept>
 #include <string>
@@ -146,8 +149,8 @@ std::unique_ptr<ScratchDirectory> CavityRun::scratch_;
 ProgramResult CavityRun::result_;
 
 TEST_F(CavityRun, WritesEveryOutputAndNoTemporaryFile) {
-  for (const char* name : {"case.resolved.yaml", "residuals.csv", "fields.pvts", "fields_0.vts", "fields_1.vts",
-                           "wall.csv", "summary.json"}) {
+  for (const char* name : {"case.resolved.yaml", "residuals.csv", "fields.pvts", "fields_0.vts",
+                           "fields_1.vts", "fields.pvd", "wall.csv", "summary.json", "progress.log"}) {
     EXPECT_TRUE(fs::is_regular_file(output() / name)) << name;
   }
   for (const auto& entry : fs::recursive_directory_iterator(output())) {
@@ -202,6 +205,26 @@ TEST_F(CavityRun, FieldsReadBackWithVtkAndObeyThePhysics) {
   for (int i = n_cells / 2; i < n_cells; ++i) min_v_right = std::min(min_v_right, fields.v(i, n_cells / 2));
   EXPECT_GT(max_v_left, 0.0);
   EXPECT_LT(min_v_right, 0.0);
+
+  // Point data for contour plots: each interior node holds the mean of its four cells.
+  vtkNew<vtkXMLPStructuredGridReader> reader;
+  reader->SetFileName((output() / "fields.pvts").string().c_str());
+  reader->Update();
+  vtkPointData* points = reader->GetOutput()->GetPointData();
+  vtkDataArray* point_pressure = points->GetArray("pressure");
+  vtkDataArray* point_velocity = points->GetArray("velocity");
+  ASSERT_NE(point_pressure, nullptr);
+  ASSERT_NE(point_velocity, nullptr);
+  ASSERT_EQ(point_pressure->GetNumberOfTuples(), (n_cells + 1) * (n_cells + 1));
+  EXPECT_EQ(point_velocity->GetNumberOfComponents(), 3);
+  for (int j = 1; j < n_cells; ++j) {
+    for (int i = 1; i < n_cells; ++i) {
+      const auto cell = [&](int a, int b) { return static_cast<size_t>(a + b * n_cells); };
+      const double mean = 0.25 * (fields.pressure[cell(i - 1, j - 1)] + fields.pressure[cell(i, j - 1)] +
+                                  fields.pressure[cell(i - 1, j)] + fields.pressure[cell(i, j)]);
+      EXPECT_NEAR(point_pressure->GetComponent(i + j * (n_cells + 1), 0), mean, 1e-14) << i << ", " << j;
+    }
+  }
 }
 
 TEST_F(CavityRun, HistoryRecordsEveryIterationUntilConvergence) {
@@ -210,8 +233,20 @@ TEST_F(CavityRun, HistoryRecordsEveryIterationUntilConvergence) {
   EXPECT_EQ(std::vector<std::string>(history.columns.begin(), history.columns.begin() + 4),
             (std::vector<std::string>{"iteration", "u_residual", "v_residual", "continuity_residual"}));
   ASSERT_FALSE(history.rows.empty());
-  for (size_t r = 0; r < history.rows.size(); ++r)
+  // Counts are written as integers: the iteration and the linear iterations of each equation.
+  for (const char* count : {"iteration", "momentum_linear_its", "pressure_linear_its"}) {
+    const size_t c = history.column(count);
+    for (size_t r = 0; r < history.rows.size(); ++r)
+      EXPECT_EQ(history.fields[r][c], std::to_string(static_cast<long>(history.rows[r][c])))
+          << count << " row " << r;
+  }
+  for (size_t r = 0; r < history.rows.size(); ++r) {
     EXPECT_EQ(history.rows[r][0], double(r + 1)) << "row " << r;
+    EXPECT_EQ(history.fields[r][0], std::to_string(r + 1)) << "row " << r;
+  }
+  EXPECT_EQ(std::find(history.columns.begin(), history.columns.end(), "turbulence_linear_its"),
+            history.columns.end())
+      << "a laminar run has no model equation";
   // The run stops at the first iteration where every normalised residual is below residual_drop.
   auto all_below = [](const std::vector<double>& row) {
     return row[1] < residual_drop && row[2] < residual_drop && row[3] < residual_drop;
@@ -220,42 +255,124 @@ TEST_F(CavityRun, HistoryRecordsEveryIterationUntilConvergence) {
   for (size_t r = 0; r + 1 < history.rows.size(); ++r)
     EXPECT_FALSE(all_below(history.rows[r])) << "row " << r;
 
-  const std::string summary = read_text(output() / "summary.json");
-  EXPECT_TRUE(contains(summary, "\"converged\": true")) << summary;
-  EXPECT_TRUE(contains(summary, "\"iterations\": " + std::to_string(history.rows.size()) + ",")) << summary;
-  EXPECT_TRUE(contains(summary, "\"ranks\": 2,")) << summary;
+  const auto summary = nlohmann::json::parse(read_text(output() / "summary.json"));
+  EXPECT_EQ(summary["converged"], true);
+  EXPECT_EQ(summary["iterations"], history.rows.size());
+  EXPECT_EQ(summary["ranks"], 2);
+  // Every equation's final residual is the last row of the history.
+  const auto& last = history.rows.back();
+  EXPECT_EQ(summary["residuals"]["u"].get<double>(), last[history.column("u_residual")]);
+  EXPECT_EQ(summary["residuals"]["v"].get<double>(), last[history.column("v_residual")]);
+  EXPECT_EQ(summary["residuals"]["continuity"].get<double>(), last[history.column("continuity_residual")]);
+  EXPECT_EQ(summary["grid"]["source"], "generator cavity");
+  EXPECT_EQ(summary["turbulence_model"]["name"], "laminar");
 }
 
 TEST_F(CavityRun, WallDataCoversAllFourWalls) {
-  const wallrans::CsvTable wall = wallrans::read_csv((output() / "wall.csv").string());
-  EXPECT_EQ(wall.columns, (std::vector<std::string>{"x", "y", "cf", "cp", "wall_shear_stress",
-                                                    "first_cell_distance", "first_cell_y_plus"}));
+  const wallrans::CsvTable wall = wallrans::read_csv((output() / "wall.csv").string(), {"side"});
+  EXPECT_EQ(wall.columns,
+            (std::vector<std::string>{"segment", "side", "x", "y", "s", "tangent_x", "tangent_y", "cf", "cp",
+                                      "wall_shear_stress", "first_cell_distance", "first_cell_y_plus"}));
   ASSERT_EQ(wall.rows.size(), 4u * n_cells);
-  const int x = column_of(wall, "x"), y = column_of(wall, "y"), cf = column_of(wall, "cf");
-  const int distance = column_of(wall, "first_cell_distance");
-  int n_lid = 0, n_bottom = 0;
+  const size_t segment = wall.column("segment"), side = wall.column("side"), x = wall.column("x"),
+               y = wall.column("y"), s = wall.column("s"), tx = wall.column("tangent_x"),
+               ty = wall.column("tangent_y"), cf = wall.column("cf"),
+               distance = wall.column("first_cell_distance");
+  // The case's segments: 0 top (the lid), 1 bottom, 2 left, 3 right, n_cells faces each, in order
+  // along the wall: s runs from half a cell to 1 - half a cell.
+  const char* sides[4] = {"top", "bottom", "left", "right"};
   double max_cf_lid = 0.0, max_cf_bottom = 0.0;
-  for (const auto& row : wall.rows) {
-    for (double value : row) EXPECT_TRUE(std::isfinite(value));
+  for (size_t r = 0; r < wall.rows.size(); ++r) {
+    const auto& row = wall.rows[r];
+    const int k = static_cast<int>(r) / n_cells, along = static_cast<int>(r) % n_cells;
+    EXPECT_EQ(wall.fields[r][segment], std::to_string(k)) << "an integer segment index, row " << r;
+    EXPECT_EQ(wall.fields[r][side], sides[k]) << r;
+    EXPECT_NEAR(row[s], (along + 0.5) / n_cells, 1e-12) << r;
     // Uniform cells: the wall-to-centre distance is half a cell.
     EXPECT_NEAR(row[distance], 0.5 / n_cells, 1e-12);
-    const bool on_side = std::abs(row[x]) < 1e-12 || std::abs(row[x] - 1.0) < 1e-12;
-    if (std::abs(row[y] - 1.0) < 1e-12 && !on_side) {
-      ++n_lid;
+    const bool horizontal = k < 2;
+    EXPECT_NEAR(row[horizontal ? y : x], k == 0 || k == 3 ? 1.0 : 0.0, 1e-12) << r;
+    // The tangent of the Cf sign: t.x > 0, or t.y > 0 on walls normal to x.
+    EXPECT_EQ(row[tx], horizontal ? 1.0 : 0.0) << r;
+    EXPECT_EQ(row[ty], horizontal ? 0.0 : 1.0) << r;
+    if (k == 0) {
+      // The fluid under the lid is slower than the lid (speed below the lid speed, see above), so
+      // relative to the wall it moves along -t: Cf < 0 along the whole lid.
+      EXPECT_LT(row[cf], 0.0) << "lid, x = " << row[x];
       max_cf_lid = std::max(max_cf_lid, std::abs(row[cf]));
-    } else if (std::abs(row[y]) < 1e-12 && !on_side) {
-      ++n_bottom;
-      max_cf_bottom = std::max(max_cf_bottom, std::abs(row[cf]));
-    } else {
-      EXPECT_TRUE(on_side) << "a wall row off the walls: " << row[x] << ", " << row[y];
     }
+    if (k == 1) max_cf_bottom = std::max(max_cf_bottom, std::abs(row[cf]));
   }
-  EXPECT_EQ(n_lid, n_cells);
-  EXPECT_EQ(n_bottom, n_cells);
   // The lid drives the flow; the fluid along the bottom moves far slower than the lid, so the
   // bottom wall's friction is smaller than the lid's.
   EXPECT_GT(max_cf_lid, 0.0);
   EXPECT_LT(max_cf_bottom, max_cf_lid);
+}
+
+// The answers in summary.json agree with the wall data they summarise: forces as sums over the
+// faces, the Cf extremes, and the separation and reattachment points where the shear changes sign.
+TEST_F(CavityRun, SummaryAnswersAgreeWithTheWallData) {
+  const auto summary = nlohmann::json::parse(read_text(output() / "summary.json"));
+  const wallrans::CsvTable wall = wallrans::read_csv((output() / "wall.csv").string(), {"side"});
+  EXPECT_EQ(summary["reference_velocity"]["value"], lid_speed);
+  EXPECT_EQ(summary["periodic"], nullptr);
+  ASSERT_EQ(summary["walls"].size(), 4u);
+  const double face_length = 1.0 / n_cells;
+  for (int k = 0; k < 4; ++k) {
+    const auto& w = summary["walls"][static_cast<size_t>(k)];
+    EXPECT_EQ(w["segment"], k);
+    EXPECT_EQ(w["name"], "boundaries[" + std::to_string(k) + "]");
+    EXPECT_EQ(w["faces"], n_cells);
+    EXPECT_NEAR(w["length"].get<double>(), 1.0, 1e-12);
+    double fx = 0.0, fy = 0.0, cf_min = 1e300, cf_max = -1e300;
+    std::vector<double> s, shear;
+    std::vector<std::array<double, 2>> at;
+    for (size_t r = 0; r < wall.rows.size(); ++r) {
+      const auto& row = wall.rows[r];
+      if (row[wall.column("segment")] != k) continue;
+      const double tau = row[wall.column("wall_shear_stress")];
+      fx += tau * row[wall.column("tangent_x")] * face_length;
+      fy += tau * row[wall.column("tangent_y")] * face_length;
+      cf_min = std::min(cf_min, row[wall.column("cf")]);
+      cf_max = std::max(cf_max, row[wall.column("cf")]);
+      s.push_back(row[wall.column("s")]);
+      shear.push_back(tau);
+      at.push_back({row[wall.column("x")], row[wall.column("y")]});
+    }
+    EXPECT_NEAR(w["friction_force"][0].get<double>(), fx, 1e-12) << k;
+    EXPECT_NEAR(w["friction_force"][1].get<double>(), fy, 1e-12) << k;
+    EXPECT_EQ(w["cf_min"].get<double>(), cf_min) << k;
+    EXPECT_EQ(w["cf_max"].get<double>(), cf_max) << k;
+    // Sign changes along s (the tangent points along s on these walls): + to - is a separation.
+    std::vector<std::pair<double, std::string>> expected;
+    for (size_t m = 0; m + 1 < s.size(); ++m) {
+      if ((shear[m] > 0.0) == (shear[m + 1] > 0.0) || shear[m] == 0.0 || shear[m + 1] == 0.0) continue;
+      expected.emplace_back(s[m] + shear[m] / (shear[m] - shear[m + 1]) * (s[m + 1] - s[m]),
+                            shear[m] > 0.0 ? "separation" : "reattachment");
+    }
+    const auto& points = w["separation_and_reattachment"];
+    ASSERT_EQ(points.size(), expected.size()) << "wall " << k;
+    for (size_t m = 0; m < expected.size(); ++m) {
+      EXPECT_NEAR(points[m]["s"].get<double>(), expected[m].first, 1e-12) << k;
+      EXPECT_EQ(points[m]["kind"], expected[m].second) << k;
+    }
+  }
+  // The lid is dragged back by the fluid: friction force along -x.
+  EXPECT_LT(summary["walls"][0]["friction_force"][0].get<double>(), 0.0);
+}
+
+// --quiet prints the final line only; everything else went to progress.log, which ends with it.
+TEST_F(CavityRun, QuietPrintsOnlyTheFinalLineAndTheLogKeepsTheRest) {
+  const auto lines = lines_of(result_.out);
+  ASSERT_EQ(lines.size(), 1u) << result_.out;
+  EXPECT_EQ(lines[0].rfind("wallrans: converged after ", 0), 0u) << lines[0];
+  EXPECT_NE(lines[0].find("results in np2"), std::string::npos) << lines[0];
+  const auto log = lines_of(read_text(output() / "progress.log"));
+  ASSERT_GE(log.size(), 3u);
+  EXPECT_EQ(log.back(), lines[0]);
+  EXPECT_NE(log.front().find("wallrans: case 'cli_cavity'"), std::string::npos) << log.front();
+  EXPECT_GE(line_containing(read_text(output() / "progress.log"), "boundaries[0] top"), 1)
+      << "the answers table";
 }
 
 TEST_F(CavityRun, BadCaseIntoExistingRunDirectoryChangesNothing) {
@@ -353,16 +470,21 @@ TEST(TurbulentRun, WritesModelFieldsWallYplusAndProfiles) {
   EXPECT_GT(*std::max_element(nut.begin(), nut.end()), 0.0);  // turbulent somewhere
   const auto history = wallrans::read_csv((out / "residuals.csv").string());
   EXPECT_GE(column_of(history, "nu_tilde_residual"), 0);
-  const auto wall = wallrans::read_csv((out / "wall.csv").string());
+  const auto wall = wallrans::read_csv((out / "wall.csv").string(), {"side"});
   const int yp = column_of(wall, "first_cell_y_plus");
   EXPECT_EQ(wall.rows.size(), 8u);  // 4 faces on each of the two walls
   for (const auto& row : wall.rows) EXPECT_GT(row[yp], 0.0);
-  const auto profile = wallrans::read_csv((out / "profile_0.csv").string());
+  EXPECT_GE(column_of(history, "turbulence_linear_its"), 0);
+  const auto profile = wallrans::read_csv((out / "profile_x0.25.csv").string());
   EXPECT_EQ(profile.columns, (std::vector<std::string>{"x", "y", "wall_distance", "y_plus", "u_tangential",
-                                                       "u_plus", "nut_over_nu", "u", "v", "nu_tilde"}));
+                                                        "u_plus", "nut_over_nu", "wall_x", "wall_y", "u", "v",
+                                                        "nu_tilde"}));
   // The bottom wall face, then the 128 cells of the column.
   ASSERT_EQ(profile.rows.size(), 129u);
-  EXPECT_EQ(profile.rows[0][2], 0.0);  // wall distance of the wall row
-  EXPECT_EQ(profile.rows[0][7], 0.0);  // u at the wall at rest
-  EXPECT_EQ(profile.rows[0][9], 0.0);  // nu_tilde at the wall (Spalart & Allmaras 1994)
+  EXPECT_EQ(profile.rows[0][2], 0.0);   // wall distance of the wall row
+  EXPECT_EQ(profile.rows[0][9], 0.0);   // u at the wall at rest
+  EXPECT_EQ(profile.rows[0][11], 0.0);  // nu_tilde at the wall (Spalart & Allmaras 1994)
+  const auto summary = nlohmann::json::parse(read_text(out / "summary.json"));
+  EXPECT_TRUE(summary["residuals"].contains("nu_tilde")) << "the model's final residual";
+  EXPECT_EQ(summary["turbulence_model"]["name"], "spalart_allmaras/negative");
 }

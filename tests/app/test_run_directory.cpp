@@ -118,7 +118,7 @@ TEST(RunDirectory, AnotherCasesResultsAreRefusedThenReplacedOnRequest) {
                     "channel")
                 .exit_status,
             3);
-  ASSERT_TRUE(fs::exists(out / "profile_0.csv"));  // the channel writes a profile; the cavity does not
+  ASSERT_TRUE(fs::exists(out / "profile_x0.25.csv"));  // the channel writes a profile; the cavity does not
   write_text(scratch.path() / "cavity.yaml", cavity_case("cavity", 16, 1e-300, 7));
   const auto before = snapshot(out);
   for (const char* command : {"check", "run"}) {
@@ -142,9 +142,11 @@ TEST(RunDirectory, AnotherCasesResultsAreRefusedThenReplacedOnRequest) {
   const std::set<std::string> expected{"case.resolved.yaml",
                                        "checkpoint_7.h5",
                                        "checkpoint_7.xmf",
+                                       "fields.pvd",
                                        "fields.pvts",
                                        "fields_0.vts",
                                        "fields_1.vts",
+                                       "progress.log",
                                        "residuals.csv",
                                        "run_identity.txt",
                                        "summary.json",

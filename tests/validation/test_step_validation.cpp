@@ -1,5 +1,5 @@
 // Validation of the backward-facing step, run as a user runs it: the program (one process),
-// first the precursor plate whose profile_0.csv becomes the step's inflow table, then the step
+// first the precursor plate whose profile_x<x>.csv becomes the step's inflow table, then the step
 // cases of configs/ on coarsened versions of their grids. Reattachment lengths from wall.csv.
 //  - Le, Moin & Kim (1997, J. Fluid Mech. 330:349) DNS conditions: SA, SA-negative and the k
 //    model on two grids (the shipped one and half its cells in each direction); both SA variants
@@ -202,7 +202,11 @@ fs::path precursor(const std::string& name) {
   const std::string label = "precursor_" + name;
   const auto result = run(source / "configs" / ("step_" + name + ".yaml"), label);
   EXPECT_EQ(result.exit_status, 0) << result.out << result.err;
-  return results / label / "profile_0.csv";
+  // The precursor configs name one station: its profile_x<x>.csv is the table.
+  for (const auto& entry : fs::directory_iterator(results / label))
+    if (entry.path().filename().string().starts_with("profile_x")) return entry.path();
+  ADD_FAILURE() << label << ": no profile_x<x>.csv";
+  return results / label / "profile_x.csv";
 }
 
 }  // namespace

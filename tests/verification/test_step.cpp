@@ -1,7 +1,7 @@
 // The backward-facing step on a coarse grid (the shipped configs/step_lmk_sa_negative.yaml with a
 // quarter of its cells in each direction), fed by the precursor plate of configs/step_lmk_precursor_sa.yaml
 // (half its cells) through the program's own profile table (io/profile_writer, as `wallrans run` writes
-// profile_<k>.csv) read back as the step's inflow. Checks: the solid corner, the round trip of
+// profile_x<x>.csv) read back as the step's inflow. Checks: the solid corner, the round trip of
 // the inflow table, the global mass balance, and a recirculation that reattaches within the band
 // of turbulent step flows. Fast: well under a minute on 2 ranks.
 #include <gtest/gtest.h>
@@ -111,14 +111,14 @@ TEST(Step, CoarseStepWithPrecursorInflowReattachesAndBalancesMass) {
   ASSERT_TRUE(pre.converged) << "precursor: " << pre.status.iteration << " iterations";
   write_profiles(plate, *pre.solver, *pre.model, scratch.path(), MPI_COMM_WORLD);
   MPI_Barrier(MPI_COMM_WORLD);
-  const fs::path table = scratch.path() / "profile_0.csv";
+  const fs::path table = scratch.path() / profile_file_name(plate.output.profiles_at_x.front());
 
   // 2. The step case as shipped, reading that table, on half the cells.
   std::ifstream in(configs / "step_lmk_sa_negative.yaml");
   std::stringstream text;
   text << in.rdbuf();
   std::string yaml = text.str();
-  const std::string shipped_table = "../out/step_lmk_precursor_sa/profile_0.csv";
+  const std::string shipped_table = "../out/step_lmk_precursor_sa/profile_x40.8.csv";
   ASSERT_NE(yaml.find(shipped_table), std::string::npos);
   yaml.replace(yaml.find(shipped_table), shipped_table.size(), table.string());
   CaseSpec step = parse_case_text(yaml, (configs / "step_lmk_sa_negative.yaml").string());
@@ -218,7 +218,7 @@ TEST(Step, CoarseStepWithPrecursorInflowReattachesAndBalancesMass) {
   MPI_Barrier(MPI_COMM_WORLD);
   write_profiles(step, solver, *run.model, step_tables, MPI_COMM_WORLD);
   MPI_Barrier(MPI_COMM_WORLD);
-  const CsvTable above = read_csv((step_tables / "profile_0.csv").string());
+  const CsvTable above = read_csv((step_tables / profile_file_name(-1.0)).string());
   ASSERT_EQ(above.rows.size(), 21u);
   EXPECT_EQ(above.rows[0][1], 1.0);  // y of the wall row
   EXPECT_EQ(above.rows[0][2], 0.0);  // its wall distance

@@ -13,10 +13,10 @@ from wallrans_post.tables import interpolate, read_table  # noqa: E402
 PROG = "wallrans-profile-diff"
 EXAMPLES = """\
   # U+ of a channel run against the DNS of Moser, Kim & Mansour (1999), log region only:
-  wallrans-profile-diff out/channel_sa_re395/profile_0.csv tests/data/channel-mkm1999/mkm_retau395_means.dat \\
+  wallrans-profile-diff out/channel_sa_re395/profile_x0.25.csv tests/data/channel-mkm1999/mkm_retau395_means.dat \\
       --x y_plus --y u_plus --ref-x y+ --ref-y U+ --range 30 350
   # relative errors, and exit code 1 when the largest exceeds 3 %:
-  wallrans-profile-diff profile_1.csv reference.csv --x y_plus --y u_plus --ref-x y_plus --ref-y u_plus \\
+  wallrans-profile-diff profile_x0.5.csv reference.csv --x y_plus --y u_plus --ref-x y_plus --ref-y u_plus \\
       --relative --max-linf 0.03
 
 Both files are tables with named columns: a CSV file with a header line (wallrans' profiles), or a
@@ -34,7 +34,7 @@ def main(argv):
     parser = cli.Parser(
         PROG, "Compares a profile with a reference table; prints the L2 and Linf error norms.", EXAMPLES
     )
-    parser.add_argument("profile", help="profile table (e.g. a run's profile_<k>.csv)")
+    parser.add_argument("profile", help="profile table (e.g. a run's profile_x<x>.csv)")
     parser.add_argument("reference", help="reference table (CSV or whitespace with named columns)")
     parser.add_argument("--x", required=True, help="profile column of the abscissa (e.g. y_plus)")
     parser.add_argument("--y", required=True, help="profile column compared (e.g. u_plus)")

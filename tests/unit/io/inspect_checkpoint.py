@@ -56,7 +56,18 @@ def check_xdmf(path):
     grid = root.find("Domain/Grid")
     assert grid is not None, "no Domain/Grid"
     assert grid.find("Topology").get("TopologyType") == "2DSMesh"
-    assert grid.find("Geometry").get("GeometryType") == "X_Y"
+    # One interleaved coordinate array (ny+1, nx+1, 2): the form both XDMF readers of the common
+    # viewer open (its XDMF-3 reader crashes on the two-array X_Y form), holding /grid/x and /grid/y.
+    geometry = grid.find("Geometry")
+    assert geometry.get("GeometryType") == "XY", geometry.attrib
+    items = geometry.findall("DataItem")
+    assert len(items) == 1, len(items)
+    file_name, dataset = items[0].text.strip().split(":", 1)
+    assert dataset == "/grid/xy", dataset
+    with h5py.File(os.path.join(os.path.dirname(path), file_name), "r") as f:
+        xy = f["/grid/xy"][...]
+        assert xy.ndim == 3 and xy.shape[2] == 2, xy.shape
+        assert (xy[:, :, 0] == f["/grid/x"][...]).all() and (xy[:, :, 1] == f["/grid/y"][...]).all()
     for attribute in grid.findall("Attribute"):
         assert attribute.get("Center") == "Cell", attribute.attrib
     n_items = 0

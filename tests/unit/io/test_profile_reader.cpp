@@ -51,7 +51,7 @@ class Tables : public ::testing::Test {
   fs::path dir_;
 };
 
-// A table in the layout of the program's profile_<k>.csv (extra columns are ignored).
+// A table in the layout of the program's profile_x<x>.csv (extra columns are ignored).
 const char* good_table =
     "x,y,wall_distance,u,v,nu_tilde\n"
     "5,0.0,0.0,0.0,0.0,0.0\n"

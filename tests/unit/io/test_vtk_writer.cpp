@@ -1,12 +1,15 @@
-// VTK output read back with VTK's own parallel reader (points, cell order, values, volumes), and
-// the CSV writer/reader round trip.
+// VTK output read back with VTK's own parallel reader (points, cell order, values, volumes, the
+// node averages), the .pvd series read with VTK's XML parser, and the CSV writer/reader round trip.
 #include <gtest/gtest.h>
 #include <mpi.h>
 #include <vtkCellData.h>
 #include <vtkDataArray.h>
 #include <vtkNew.h>
+#include <vtkPointData.h>
 #include <vtkPoints.h>
 #include <vtkStructuredGrid.h>
+#include <vtkXMLDataElement.h>
+#include <vtkXMLDataParser.h>
 #include <vtkXMLPStructuredGridReader.h>
 
 #include <cmath>
@@ -271,4 +274,146 @@ TEST(Csv, MalformedRowNamesFileAndLine) {
   }
   EXPECT_THROW(read_csv((scratch.path() / "missing.csv").string()), InputError);
   EXPECT_THROW(CsvWriter((scratch.path() / "no_dir" / "x.csv").string(), {"a"}), Error);
+}
+
+namespace {
+
+// A linear field: the average of its cell values is its value at the average of the cell centres.
+double linear_function(Vec2 p) { return 2.0 + 3.0 * p.x - 0.7 * p.y; }
+
+// Collective. Writes `value` (the linear function at the cell centres) with the cells i < 3 and
+// j < 2 excluded, reads the point data back on rank 0 and compares each node with the mean of the
+// linear function over the centroids of the cells around it (computed here from the nodes read
+// back): over the kept cells, or all cells where every neighbour is excluded.
+void check_node_averages(bool periodic) {
+  const ScratchDirectory scratch;
+  const NodeCoordinates nodes = generate_nodes(skewed_spec());
+  Grid grid(MPI_COMM_WORLD, nodes, periodic);
+  Field value(grid, -99.0), excluded(grid, -99.0);
+  VectorField velocity(grid);
+  auto is_excluded = [](int i, int j) { return i < 3 && j < 2; };
+  for (int j = grid.y_begin(); j < grid.y_end(); ++j) {
+    for (int i = grid.x_begin(); i < grid.x_end(); ++i) {
+      value(i, j) = linear_function(grid.centre(i, j));
+      velocity.set(i, j, {value(i, j), -value(i, j)});
+      excluded(i, j) = is_excluded(i, j) ? 1.0 : 0.0;
+    }
+  }
+  const std::string index = write_vtk_fields(grid, {{"value", &value}}, {{"velocity", &velocity}},
+                                             scratch.path().string(), "nodes", &excluded);
+  MPI_Barrier(MPI_COMM_WORLD);
+  if (world_rank() != 0) return;
+  vtkNew<vtkXMLPStructuredGridReader> reader;
+  reader->SetFileName(index.c_str());
+  reader->Update();
+  vtkStructuredGrid* read = reader->GetOutput();
+  vtkDataArray* point_value = read->GetPointData()->GetArray("value");
+  vtkDataArray* point_velocity = read->GetPointData()->GetArray("velocity");
+  ASSERT_NE(point_value, nullptr);
+  ASSERT_NE(point_velocity, nullptr);
+  ASSERT_EQ(point_value->GetNumberOfTuples(), (nx + 1) * (ny + 1));
+  EXPECT_EQ(point_velocity->GetNumberOfComponents(), 3);
+  EXPECT_EQ(read->GetPointData()->GetArray("cell_volume"), nullptr) << "grid quantities are cell data only";
+  auto centre = [&](int i, int j) {
+    const int ii = (i + nx) % nx;  // a periodic neighbour is the cell at the other end
+    auto node = [&](int a, int b) { return nodes.at(a, b); };
+    return quad_centroid(node(ii, j), node(ii + 1, j), node(ii + 1, j + 1), node(ii, j + 1));
+  };
+  for (int j = 0; j <= ny; ++j) {
+    for (int i = 0; i <= nx; ++i) {
+      double kept = 0.0, all = 0.0;
+      int n_kept = 0, n_all = 0;
+      for (int cj = j - 1; cj <= j; ++cj) {
+        for (int ci = i - 1; ci <= i; ++ci) {
+          if (cj < 0 || cj >= ny || (!periodic && (ci < 0 || ci >= nx))) continue;
+          const double f = linear_function(centre(ci, cj));
+          all += f;
+          ++n_all;
+          if (!is_excluded((ci + nx) % nx, cj)) {
+            kept += f;
+            ++n_kept;
+          }
+        }
+      }
+      const double expected = n_kept > 0 ? kept / n_kept : all / n_all;
+      const vtkIdType point = i + j * (nx + 1);
+      // Centroids by two formulas (see above): agreement to rounding.
+      EXPECT_NEAR(point_value->GetComponent(point, 0), expected, 1e-12) << "node " << i << ", " << j;
+      EXPECT_NEAR(point_velocity->GetComponent(point, 0), expected, 1e-12) << "node " << i << ", " << j;
+      EXPECT_NEAR(point_velocity->GetComponent(point, 1), -expected, 1e-12) << "node " << i << ", " << j;
+      EXPECT_EQ(point_velocity->GetComponent(point, 2), 0.0);
+    }
+  }
+}
+
+}  // namespace
+
+// On 4 ranks the pieces meet at an interior corner, whose node needs the diagonal neighbour cell.
+TEST(VtkWriter, PointDataAreNodeAveragesOfTheCellValues) { check_node_averages(false); }
+
+TEST(VtkWriter, PointDataWrapAroundAPeriodicDirection) { check_node_averages(true); }
+
+TEST(VtkWriter, SeriesListsEachFileWithItsTime) {
+  const ScratchDirectory scratch;
+  Grid grid(MPI_COMM_WORLD, generate_nodes(skewed_spec()), false);
+  Field value(grid, 1.0);
+  const std::string directory = scratch.path().string();
+  write_vtk_fields(grid, {{"value", &value}}, {}, directory, "fields_10");
+  write_vtk_fields(grid, {{"value", &value}}, {}, directory, "fields_20");
+  MPI_Barrier(MPI_COMM_WORLD);
+  if (world_rank() != 0) return;
+  const std::string series = (scratch.path() / "fields.pvd").string();
+  write_vtk_series(series, {{10.0, "fields_10.pvts"}, {20.0, "fields_20.pvts"}});
+  vtkNew<vtkXMLDataParser> parser;
+  parser->SetFileName(series.c_str());
+  ASSERT_EQ(parser->Parse(), 1) << "not well-formed XML";
+  vtkXMLDataElement* root = parser->GetRootElement();
+  ASSERT_NE(root, nullptr);
+  EXPECT_STREQ(root->GetName(), "VTKFile");
+  EXPECT_STREQ(root->GetAttribute("type"), "Collection");
+  vtkXMLDataElement* collection = root->FindNestedElementWithName("Collection");
+  ASSERT_NE(collection, nullptr);
+  ASSERT_EQ(collection->GetNumberOfNestedElements(), 2);
+  for (int k = 0; k < 2; ++k) {
+    vtkXMLDataElement* entry = collection->GetNestedElement(k);
+    EXPECT_STREQ(entry->GetName(), "DataSet");
+    EXPECT_EQ(std::stod(entry->GetAttribute("timestep")), 10.0 * (k + 1));
+    // Every listed file opens with VTK's reader.
+    vtkNew<vtkXMLPStructuredGridReader> reader;
+    reader->SetFileName((scratch.path() / entry->GetAttribute("file")).string().c_str());
+    reader->Update();
+    EXPECT_EQ(reader->GetOutput()->GetNumberOfCells(), nx * ny);
+  }
+  EXPECT_THROW(write_vtk_series(series, {{1.0, "a<b.pvts"}}), Error);
+}
+
+TEST(Csv, IntegerAndTextColumns) {
+  const ScratchDirectory scratch;
+  if (world_rank() != 0) return;
+  fs::create_directories(scratch.path());
+  const std::string path = (scratch.path() / "typed.csv").string();
+  {
+    CsvWriter writer(path, {{"iteration", CsvType::integer}, {"side", CsvType::text}, {"value"}});
+    writer.mixed_row({3.0, std::string("bottom"), 0.25});
+    writer.mixed_row({-12.0, std::string("top"), -1.5});
+    EXPECT_THROW(writer.mixed_row({2.5, std::string("top"), 1.0}), Error) << "not a whole number";
+    EXPECT_THROW(writer.mixed_row({2.0, std::string("a,b"), 1.0}), Error) << "a comma in a text";
+    EXPECT_THROW(writer.mixed_row({2.0, 1.0, 1.0}), Error) << "a number in a text column";
+    EXPECT_THROW(writer.row({2.0, 1.0, 1.0}), Error) << "numbers only for a table with a text column";
+  }
+  std::ifstream in(path);
+  std::string header, first, second;
+  std::getline(in, header);
+  std::getline(in, first);
+  std::getline(in, second);
+  EXPECT_EQ(header, "iteration,side,value");
+  EXPECT_EQ(first, "3,bottom,2.5000000000000000e-01");
+  EXPECT_EQ(second, "-12,top,-1.5000000000000000e+00");
+  EXPECT_THROW(read_csv(path), InputError) << "a text where a number is expected";
+  const CsvTable table = read_csv(path, {"side"});
+  ASSERT_EQ(table.rows.size(), 2u);
+  EXPECT_EQ(table.rows[1][table.column("iteration")], -12.0);
+  EXPECT_TRUE(std::isnan(table.rows[1][table.column("side")]));
+  EXPECT_EQ(table.fields[1][table.column("side")], "top");
+  EXPECT_THROW(table.column("missing"), InputError);
 }
