@@ -6,7 +6,7 @@
 #include <limits>
 #include <tuple>
 
-#include "app/shear_sign_changes.hpp"
+#include "coupling/shear_sign_changes.hpp"
 #include "core/error.hpp"
 #include "io/csv_writer.hpp"
 #include "io/gather.hpp"

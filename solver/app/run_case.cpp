@@ -220,9 +220,9 @@ class Run {
         summary_(summary),
         start_(start),
         rank_(rank_of(comm)),
-        watch_(solver, model),
         progress_(progress),
-        estimate_(spec.iterations.residual_drop) {}
+        estimate_(spec.iterations.residual_drop),
+        watch_(solver, model) {}
 
   int execute(int first_iteration, const StopSignals& signals);
 
@@ -257,13 +257,10 @@ class Run {
   DivergenceWatch watch_;
 };
 
-// A warning goes to the terminal (rank 0) and into the summary.
+// A warning goes to the terminal and progress.log (rank 0) and into the summary.
 void Run::warn(const std::string& text) {
   summary_.warnings.push_back(text);
-  if (rank_ == 0) {
-    std::printf("wallrans: warning: %s\n", text.c_str());
-    std::fflush(stdout);
-  }
+  if (rank_ == 0 && progress_) progress_->line("wallrans: warning: " + text);
 }
 
 // Closures that integrate to the wall need the first cell centre at y+ <= 1.

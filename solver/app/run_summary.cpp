@@ -57,12 +57,6 @@ Json periodic_json(const PeriodicAnswers& p) {
               {"driving_force_per_unit_mass", p.driving_force}};
 }
 
-std::string json_strings(const std::vector<std::string>& list) {
-  std::string out = "[";
-  for (const std::string& item : list) out += (out.size() > 1 ? ", " : "") + json_string(item);
-  return out + "]";
-}
-
 }  // namespace
 
 const char* to_string(RunStatus status) {
@@ -154,7 +148,10 @@ std::string summary_json(const RunSummary& s) {
                              {"at", Json::array({s.max_y_plus_x, s.max_y_plus_y})}};
   // Mass balance and periodic driving: members written by app/flow_report.hpp.
   if (!s.flow_report_json.empty()) {
-    const Json report = Json::parse("{" + s.flow_report_json.substr(1) + "}");
+    std::string object = s.flow_report_json;  // ",\n  \"mass_balance\": {...}..." -> "{...}"
+    object.front() = '{';
+    object.push_back('}');
+    const Json report = Json::parse(object);
     for (const auto& [key, value] : report.items()) json[key] = value;
   }
   json["walls"] = walls;

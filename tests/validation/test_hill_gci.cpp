@@ -71,7 +71,7 @@ GridResult solve_on(const CaseSpec& shipped, const NodeCoordinates& nodes) {
   const auto shear = test_support::bottom_wall_shear(solver, MPI_COMM_WORLD);
   const auto zeros = shear_sign_changes(shear.x, shear.tau, hill_period_in_h * h);
   g.n_zeros = zeros.size();
-  for (const ShearSignChange& z : zeros) (z.is_separation ? g.separation : g.reattachment) = z.x / h;
+  for (const ShearSignChange& z : zeros) (z.is_separation ? g.separation : g.reattachment) = z.s / h;
   double y_plus = 0.0;
   for (const WallSample& w : solver.wall_samples())
     y_plus = std::max(

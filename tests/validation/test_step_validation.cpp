@@ -171,8 +171,8 @@ StepRun run_step(const fs::path& config, double factor, const fs::path& table, c
   r.x_r = bubble.reattachment;
   for (const auto& z : bubble.zeros) {
     char text[48];
-    std::snprintf(text, sizeof text, "%s%s %.3f", r.zeros.empty() ? "" : ", ", z.is_reattachment ? "R" : "S",
-                  z.position);
+    std::snprintf(text, sizeof text, "%s%s %.3f", r.zeros.empty() ? "" : ", ", z.is_separation ? "S" : "R",
+                  z.s);
     r.zeros += text;
   }
   r.mass_ratio = std::abs(net_boundary_flux(dir)) / through_flow(table, 1.0, height);

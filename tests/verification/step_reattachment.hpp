@@ -8,12 +8,12 @@
 #include <limits>
 #include <vector>
 
-#include "coupling/wall_shear_zeros.hpp"
+#include "coupling/shear_sign_changes.hpp"
 
 namespace wallrans::test_support {
 
 struct Recirculation {
-  std::vector<WallShearZero> zeros;  ///< every sign change along the bottom wall, downstream first
+  std::vector<ShearSignChange> zeros;  ///< every sign change along the bottom wall, downstream first
   /// The main bubble's reattachment: the last zero where the shear turns positive (NaN if none).
   double reattachment = std::numeric_limits<double>::quiet_NaN();
   bool has_reverse_flow = false;  ///< some bottom-wall face has negative shear
@@ -32,9 +32,9 @@ inline Recirculation bottom_wall_recirculation(std::vector<std::array<double, 3>
     tau.push_back(f[2]);
     out.has_reverse_flow = out.has_reverse_flow || f[2] < 0.0;
   }
-  out.zeros = wall_shear_zeros(x, tau);
-  for (const WallShearZero& z : out.zeros)
-    if (z.is_reattachment) out.reattachment = z.position;
+  out.zeros = shear_sign_changes(x, tau);
+  for (const ShearSignChange& z : out.zeros)
+    if (!z.is_separation) out.reattachment = z.s;
   return out;
 }
 

@@ -53,12 +53,12 @@ TEST(HillCase, FlowRateHeldMassBalancedAndALeeSideBubble) {
   ASSERT_TRUE(zeros[0].is_separation);
   ASSERT_FALSE(zeros[1].is_separation);
   const double foot = 54.0 / 28.0 * h;
-  EXPECT_GT(zeros[0].x, 0.0);
-  EXPECT_LT(zeros[0].x, foot);
-  EXPECT_GT(zeros[1].x, foot);
-  EXPECT_LT(zeros[1].x, hill_period_in_h * h);
+  EXPECT_GT(zeros[0].s, 0.0);
+  EXPECT_LT(zeros[0].s, foot);
+  EXPECT_GT(zeros[1].s, foot);
+  EXPECT_LT(zeros[1].s, hill_period_in_h * h);
   for (size_t k = 0; k < shear.x.size(); ++k) {
-    if (shear.x[k] > zeros[0].x && shear.x[k] < zeros[1].x) {
+    if (shear.x[k] > zeros[0].s && shear.x[k] < zeros[1].s) {
       EXPECT_LE(shear.tau[k], 0.0) << shear.x[k];
     }
   }
@@ -67,6 +67,6 @@ TEST(HillCase, FlowRateHeldMassBalancedAndALeeSideBubble) {
         "hill 96 x 48: %d iterations, dp/dx = %.8g, bulk velocity error %.2e (worst section %.2e), "
         "mass imbalance %.2e of the through-flow, separation x/h = %.4f, reattachment x/h = %.4f\n",
         run.status.iteration, driving.mean_pressure_gradient, driving.bulk_velocity / target - 1.0, worst,
-        balance.cells_l1 / balance.through_flow, zeros[0].x / h, zeros[1].x / h);
+        balance.cells_l1 / balance.through_flow, zeros[0].s / h, zeros[1].s / h);
   }
 }

@@ -250,7 +250,7 @@ TEST(Step, CoarseStepWithPrecursorInflowReattachesAndBalancesMass) {
     reverse = bubble.has_reverse_flow ? 1 : 0;
     for (const auto& z : bubble.zeros)
       std::printf("step: bottom-wall shear %s at x/h = %.3f\n",
-                  z.is_reattachment ? "reattaches" : "separates", z.position);
+                  z.is_separation ? "separates" : "reattaches", z.s);
   }
   MPI_Bcast(&x_r, 1, MPI_DOUBLE, 0, MPI_COMM_WORLD);
   MPI_Bcast(&reverse, 1, MPI_INT, 0, MPI_COMM_WORLD);

@@ -4,6 +4,7 @@
 #include <gtest/gtest.h>
 
 #include <cmath>
+#include <stdexcept>
 #include <numbers>
 
 #include "coupling/shear_sign_changes.hpp"
@@ -19,7 +20,7 @@ TEST(ShearSignChanges, LinearShearHasItsExactZero) {
   }
   const auto zeros = shear_sign_changes(x, tau);
   ASSERT_EQ(zeros.size(), 1u);
-  EXPECT_NEAR(zeros[0].x, 0.3, 1e-15);
+  EXPECT_NEAR(zeros[0].s, 0.3, 1e-15);
   EXPECT_TRUE(zeros[0].is_separation);
 }
 
@@ -44,15 +45,93 @@ TEST(ShearSignChanges, PeriodicBubbleAcrossTheSeam) {
     // (2 pi / L) x |sin| <= 3e-4 at the zero (tan of the phase error), with ds = 0.1.
     for (const auto& z : zeros) {
       const double expected = z.is_separation ? separation : reattachment;
-      EXPECT_NEAR(z.x, expected, 1e-3) << shift << (z.is_separation ? " separation" : " reattachment");
-      EXPECT_GE(z.x, 0.0);
-      EXPECT_LT(z.x, length);
+      EXPECT_NEAR(z.s, expected, 1e-3) << shift << (z.is_separation ? " separation" : " reattachment");
+      EXPECT_GE(z.s, 0.0);
+      EXPECT_LT(z.s, length);
     }
-    EXPECT_LT(zeros[0].x, zeros[1].x);  // sorted
+    EXPECT_LT(zeros[0].s, zeros[1].s);  // sorted
   }
 }
 
 TEST(ShearSignChanges, AttachedFlowHasNone) {
   EXPECT_TRUE(shear_sign_changes({0.0, 1.0, 2.0}, {1.0, 0.5, 2.0}, 3.0).empty());
   EXPECT_TRUE(shear_sign_changes({}, {}, 3.0).empty());
+}
+
+TEST(ShearSignChanges, LinearShearGivesItsExactZero) {
+  // tau = x - 0.37 sampled at x = 0, 0.1, ..., 1: the straight line through the samples around the
+  // zero is the function itself.
+  std::vector<double> x, tau;
+  for (int k = 0; k <= 10; ++k) {
+    x.push_back(0.1 * k);
+    tau.push_back(0.1 * k - 0.37);
+  }
+  const auto zeros = shear_sign_changes(x, tau);
+  ASSERT_EQ(zeros.size(), 1u);
+  EXPECT_NEAR(zeros[0].s, 0.37, 1e-15);
+  EXPECT_FALSE(zeros[0].is_separation);
+}
+
+TEST(ShearSignChanges, BubbleBehindAStepWithACornerEddy) {
+  // Positive in a corner eddy, negative in the main bubble, positive after reattachment.
+  const std::vector<double> x{0.1, 0.5, 1.0, 2.0, 4.0, 6.0, 7.0, 9.0};
+  const std::vector<double> tau{0.2, 0.1, -0.1, -0.4, -0.3, -0.1, 0.1, 0.3};
+  const auto zeros = shear_sign_changes(x, tau);
+  ASSERT_EQ(zeros.size(), 2u);
+  EXPECT_NEAR(zeros[0].s, 0.75, 1e-15);
+  EXPECT_TRUE(zeros[0].is_separation);
+  EXPECT_NEAR(zeros[1].s, 6.5, 1e-15);
+  EXPECT_FALSE(zeros[1].is_separation);
+}
+
+TEST(ShearSignChanges, ExactZerosCountOnceAndOnlyBetweenOppositeSigns) {
+  // A run of exact zeros between opposite signs is one zero at its middle; zeros between equal
+  // signs (touching) and at the ends are none.
+  const std::vector<double> x{0, 1, 2, 3, 4, 5, 6, 7, 8};
+  const std::vector<double> tau{0.0, 1.0, 0.0, 0.0, -1.0, 0.0, -2.0, -1.0, 0.0};
+  const auto zeros = shear_sign_changes(x, tau);
+  ASSERT_EQ(zeros.size(), 1u);
+  EXPECT_EQ(zeros[0].s, 2.5);
+  EXPECT_TRUE(zeros[0].is_separation);
+  EXPECT_TRUE(shear_sign_changes({}, {}).empty());
+  EXPECT_TRUE(shear_sign_changes({1.0}, {-1.0}).empty());
+}
+
+TEST(ShearSignChanges, LinearInterpolationBetweenSamples) {
+  const std::vector<double> s{0.0, 1.0, 3.0, 4.0, 6.0};
+  const std::vector<double> shear{2.0, 1.0, -3.0, -1.0, 1.0};
+  const auto points = shear_sign_changes(s, shear);
+  ASSERT_EQ(points.size(), 2u);
+  // + to - between s = 1 (1.0) and s = 3 (-3.0): 1 + 1/4 * 2 = 1.5; the flow leaves the wall.
+  EXPECT_DOUBLE_EQ(points[0].s, 1.5);
+  EXPECT_TRUE(points[0].is_separation);
+  EXPECT_EQ(points[0].before, 1);
+  EXPECT_DOUBLE_EQ(points[0].fraction, 0.25);
+  // - to + between s = 4 (-1.0) and s = 6 (1.0): the middle, 5; the flow comes back.
+  EXPECT_DOUBLE_EQ(points[1].s, 5.0);
+  EXPECT_FALSE(points[1].is_separation);
+  EXPECT_EQ(points[1].before, 3);
+}
+
+TEST(ShearSignChanges, ExactZerosGiveOnePointAtTheMiddleOfTheirRun) {
+  // One zero sample between opposite signs: the point is that sample.
+  auto one = shear_sign_changes({0.0, 1.0, 2.0}, {1.0, 0.0, -1.0});
+  ASSERT_EQ(one.size(), 1u);
+  EXPECT_DOUBLE_EQ(one[0].s, 1.0);
+  EXPECT_TRUE(one[0].is_separation);
+  // Two zero samples: the middle between them.
+  auto two = shear_sign_changes({0.0, 1.0, 2.0, 4.0}, {-1.0, 0.0, 0.0, 2.0});
+  ASSERT_EQ(two.size(), 1u);
+  EXPECT_DOUBLE_EQ(two[0].s, 1.5);
+  EXPECT_FALSE(two[0].is_separation);
+  // Zeros between samples of the same sign, or at the ends, change no sign.
+  EXPECT_TRUE(shear_sign_changes({0.0, 1.0, 2.0}, {1.0, 0.0, 1.0}).empty());
+  EXPECT_TRUE(shear_sign_changes({0.0, 1.0, 2.0}, {0.0, -1.0, 0.0}).empty());
+}
+
+TEST(ShearSignChanges, NoSamplesOrOneSignGiveNoPoints) {
+  EXPECT_TRUE(shear_sign_changes({}, {}).empty());
+  EXPECT_TRUE(shear_sign_changes({0.0}, {-1.0}).empty());
+  EXPECT_TRUE(shear_sign_changes({0.0, 1.0, 2.0}, {-1.0, -2.0, -0.5}).empty());
+  EXPECT_THROW(shear_sign_changes({0.0, 1.0}, {1.0}), std::invalid_argument);
 }
