@@ -165,8 +165,10 @@ PeriodicAnswers periodic_answers(const CaseSpec& spec, const FlowSolver& solver,
   PeriodicAnswers p;
   const double nu = spec.flow.kinematic_viscosity;
   p.bulk_velocity = flow / volume;
-  p.mean_pressure_gradient = spec.periodic.mean_pressure_gradient;
-  p.driving_force = -spec.periodic.mean_pressure_gradient + spec.flow.body_force.x;
+  // The gradient applied now: periodic.mean_pressure_gradient, or where periodic.bulk_velocity
+  // holds the flow rate, the one the controller converged to.
+  p.mean_pressure_gradient = solver.periodic_driving().mean_pressure_gradient;
+  p.driving_force = -p.mean_pressure_gradient + spec.flow.body_force.x;
   if (wall_length > 0.0) {
     // Force balance of the whole fluid, x direction: tau_w,mean * wall length = f * fluid area.
     p.half_height = volume / wall_length;

@@ -47,7 +47,7 @@ struct WallAnswers {
 struct PeriodicAnswers {
   double bulk_velocity = 0.0;           ///< volume mean of u over the fluid cells [m/s]
   double half_height = 0.0;             ///< delta = fluid area / wetted wall length [m]
-  double mean_pressure_gradient = 0.0;  ///< periodic.mean_pressure_gradient dp/dx [m/s^2]
+  double mean_pressure_gradient = 0.0;  ///< dp/dx applied at the end [m/s^2] (fixed, or held by the flow rate)
   double driving_force = 0.0;           ///< -dp/dx + flow.body_force.x per unit mass [m/s^2]
   double u_tau = 0.0;                   ///< sqrt(|driving_force| delta): the force balance [m/s]
   double u_tau_wall_shear = 0.0;        ///< sqrt(|friction force x| / wall length) [m/s]

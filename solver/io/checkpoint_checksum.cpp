@@ -28,6 +28,14 @@ struct Run {
   uint64_t first, length, crc;
 };
 
+// Values per (row, column) entry: the product of the dimensions after the second, which every rank
+// writes whole (e.g. the interleaved node coordinates, cells_y+1 x cells_x+1 x 2).
+uint64_t entry_size(const Block& block) {
+  uint64_t inner = 1;
+  for (size_t d = 2; d < block.global.size(); ++d) inner *= block.global[d];
+  return inner;
+}
+
 std::vector<Run> runs_of(const Block& block, const std::vector<double>& values) {
   std::vector<Run> runs;
   if (block.by_id) {
@@ -40,9 +48,10 @@ std::vector<Run> runs_of(const Block& block, const std::vector<double>& values) 
     return runs;
   }
   if (block.size() == 0) return runs;
-  const uint64_t row_length = block.count[1], width = block.global[1];
+  const uint64_t inner = entry_size(block);
+  const uint64_t row_length = block.count[1] * inner, width = block.global[1] * inner;
   for (uint64_t r = 0; r < block.count[0]; ++r) {
-    runs.push_back({(block.start[0] + r) * width + block.start[1], row_length,
+    runs.push_back({(block.start[0] + r) * width + block.start[1] * inner, row_length,
                     crc32_of(values.data() + r * row_length, row_length)});
   }
   return runs;
@@ -140,7 +149,8 @@ long long first_non_finite(MPI_Comm comm, const Block& block, const std::vector<
     if (block.by_id) {
       first = static_cast<long long>(block.ids[k]);
     } else {
-      const uint64_t row = k / block.count[1], column = k % block.count[1];
+      const uint64_t entry = k / entry_size(block);  // index_text names the (i, j) entry
+      const uint64_t row = entry / block.count[1], column = entry % block.count[1];
       first = static_cast<long long>((block.start[0] + row) * block.global[1] + block.start[1] + column);
     }
   }
