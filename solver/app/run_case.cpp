@@ -257,10 +257,10 @@ class Run {
   DivergenceWatch watch_;
 };
 
-// A warning goes to the terminal and progress.log (rank 0) and into the summary.
+// A warning goes to the terminal (also with --quiet) and progress.log (rank 0) and into the summary.
 void Run::warn(const std::string& text) {
   summary_.warnings.push_back(text);
-  if (rank_ == 0 && progress_) progress_->line("wallrans: warning: " + text);
+  if (rank_ == 0 && progress_) progress_->final("wallrans: warning: " + text);
 }
 
 // Closures that integrate to the wall need the first cell centre at y+ <= 1.

@@ -141,12 +141,16 @@ TEST_F(ChannelRun, ProfilesAreNamedByStationAndMeasuredFromTheNearestWall) {
   EXPECT_FALSE(fs::exists(out() / "profile_x5.csv")) << "x = 5 lies outside the grid";
   EXPECT_NE(result_.out.find("profile station x = 5"), std::string::npos) << result_.out;
   const wallrans::CsvTable profile = wallrans::read_csv((out() / "profile_x0.2.csv").string());
-  ASSERT_EQ(profile.rows.size(), static_cast<size_t>(n_y));
+  // The bottom wall face (the column's lowest face, a wall), then the n_y cells.
+  ASSERT_EQ(profile.rows.size(), static_cast<size_t>(n_y) + 1);
   const size_t y = profile.column("y"), d = profile.column("wall_distance"),
                wall_y = profile.column("wall_y"), yplus = profile.column("y_plus"),
-               uplus = profile.column("u_plus");
+               uplus = profile.column("u_plus"), u = profile.column("u");
+  EXPECT_EQ(profile.rows[0][y], 0.0);
+  EXPECT_EQ(profile.rows[0][d], 0.0);
+  EXPECT_EQ(profile.rows[0][u], 0.0);  // the wall at rest
   for (int j = 0; j < n_y; ++j) {
-    const auto& row = profile.rows[static_cast<size_t>(j)];
+    const auto& row = profile.rows[static_cast<size_t>(j) + 1];
     const bool upper = row[y] > height / 2.0;
     EXPECT_EQ(row[wall_y], upper ? height : 0.0) << j;
     EXPECT_NEAR(row[d], upper ? height - row[y] : row[y], 1e-14) << j;

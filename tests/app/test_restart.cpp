@@ -357,7 +357,7 @@ TEST(Restart, FlowRateControlIsPartOfTheRestartState) {
                        "hill_first");
   ASSERT_EQ(first.exit_status, 3) << first.err;
   auto second = run_mpi(2, scratch.path(),
-                        {"run", "hill.yaml", "--output-dir", "split", "--max-iterations", "40", "--quiet",
+                        {"run", "hill.yaml", "--output-dir", "split", "--max-iterations", "17", "--quiet",
                          "--restart", "split/checkpoint_23.h5"},
                         "hill_second");
   ASSERT_EQ(second.exit_status, 3) << second.err;
