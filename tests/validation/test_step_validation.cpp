@@ -158,7 +158,7 @@ StepRun run_step(const fs::path& config, double factor, const fs::path& table, c
   r.converged = result.exit_status == 0;
   const fs::path dir = results / label;
   if (!fs::exists(dir / "wall.csv")) return r;
-  const CsvTable wall = read_csv((dir / "wall.csv").string());
+  const CsvTable wall = read_csv((dir / "wall.csv").string(), {"side"});
   std::vector<std::array<double, 3>> faces;
   const int x = column(wall, "x"), y = column(wall, "y"), tau = column(wall, "wall_shear_stress"),
             yp = column(wall, "first_cell_y_plus");
