@@ -1,6 +1,7 @@
 #!/usr/bin/env bash
 # Installs what is missing, builds wallrans into build/ and runs the default test suite
-# (unit and coarse verification tests, about 2 minutes on 2 cores). Exits non-zero on failure.
+# (unit, coarse verification and program tests: about 7 minutes on 2 cores, plus the build).
+# Exits non-zero on failure.
 # Usage: tools/test.sh            (from any directory; as root on a fresh Debian 12, or with sudo)
 #
 # The long validation suite is opt-in (run it after this script has built the tree):

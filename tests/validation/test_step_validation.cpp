@@ -5,7 +5,7 @@
 //    model on two grids (the shipped one and half its cells in each direction); both SA variants
 //    within 15 % of the DNS x_r = 6.28 h (from memory; ERCOFTAC case 31 gives "about 6h").
 //  - Our scenario at the conditions of Driver & Seegmiller (1985, AIAA J. 23:163): SA on three
-//    grids (r = 4/3, the shipped one the finest), observed order and GCI of x_r (Roache 1994;
+//    grids (r = 2, the shipped one the finest), observed order and GCI of x_r (Roache 1994;
 //    Celik et al. 2008), beside the measured 6.26 +/- 0.10 H.
 // Every run: converged, and the global mass imbalance (the net flux out through every boundary
 // face, from the final checkpoint) at most 1e-10 of the through-flow. Long: about an hour on a
@@ -242,9 +242,11 @@ TEST(StepValidation, DriverSeegmillerConditionsThreeGridStudy) {
       "\n| run | cells | x_r/H | vs measured 6.26 | bottom-wall shear zeros (S/R at x/H) | mass imbalance/Q "
       "| y+ max |\n"
       "|---|---|---|---|---|---|---|\n");
-  // The shipped grid (192 x 160) is the finest; r = 4/3 keeps every count even on all three
-  // (192/144/108 x 160/120/90) and every first cell below y+ = 1.
-  constexpr double r = 4.0 / 3.0;
+  // The shipped grid (192 x 160) is the finest; r = 2 gives 96 x 80 and 48 x 40 with the step
+  // corner on a grid line (upstream 32/16/8, below the step 64/32/16 cells). The family r = 4/3
+  // (108 x 90 coarsest) stalled on its coarsest grid with residuals frozen at 5e-4 (measured
+  // 2026-12-03, with and without the nested start), so it is not used.
+  constexpr double r = 2.0;
   std::vector<StepRun> runs;  // fine, medium, coarse
   for (const auto& [factor, grid] :
        {std::pair{1.0, "fine"}, std::pair{1.0 / r, "medium"}, std::pair{1.0 / (r * r), "coarse"}}) {
