@@ -13,7 +13,7 @@ namespace wallrans {
 
 namespace {
 
-constexpr const char* commands = "run, check, write-grid or version";
+constexpr const char* commands = "run, check, write-grid, extract or version";
 
 constexpr const char* petsc_text =
     "PETSc options for the linear solvers go last, after our own arguments, with one prefix per\n"
@@ -139,7 +139,8 @@ CommandLine parse_command_line(int argc, const char* const* argv) {
     // The command comes first; CLI11 would call an unknown one an unexpected argument.
     if (ours.size() < 2) throw InputError(std::string("command line: expected a command (") + commands + ")");
     const std::string first = ours[1];
-    if (first != "run" && first != "check" && first != "write-grid" && first != "version") {
+    if (first != "run" && first != "check" && first != "write-grid" && first != "extract" &&
+        first != "version") {
       throw InputError(first[0] == '-'
                            ? "command line: option '" + first + "' before the command: expected a command (" +
                                  commands + ") first"
@@ -149,6 +150,7 @@ CommandLine parse_command_line(int argc, const char* const* argv) {
 
   CommandLine result;
   std::vector<std::string> case_files, grid_arguments;
+  std::string stations;
   CLI::App app("wallrans: a 2D incompressible RANS solver on structured curvilinear grids.", "wallrans");
   app.footer(std::string("Run 'wallrans <command> --help' for the options of a command.\n") + exit_text);
   app.require_subcommand(0, 1);
@@ -170,6 +172,38 @@ CommandLine parse_command_line(int argc, const char* const* argv) {
   write_grid->allow_extras();
   write_grid->footer("Example: wallrans write-grid configs/plate_sa.yaml plate_grid.h5\n\n" +
                      std::string(exit_text));
+  CLI::App* extract = app.add_subcommand(
+      "extract",
+      "write wall data and profiles of a checkpoint into a folder of your choice, without iterating");
+  extract->add_option("CASE", case_files, "the case file the checkpoint belongs to (YAML)")
+      ->type_name("CASE.yaml");
+  extract
+      ->add_option("--checkpoint", result.extract.checkpoint,
+                   "the checkpoint to read (written on any rank count)")
+      ->type_name("FILE.h5")
+      ->required();
+  extract
+      ->add_option("--into", result.extract.into,
+                   "the folder to write wall.csv and profile_x<X>.csv into (created if missing); never the "
+                   "run directory or the checkpoint's folder")
+      ->type_name("DIR")
+      ->required();
+  extract
+      ->add_option("--stations", stations,
+                   "profile stations x [m], comma-separated; default: the case's output.profiles_at_x")
+      ->type_name("X1,X2,...");
+  extract->allow_extras();
+  extract->footer(
+      "Examples:\n"
+      "  wallrans extract configs/plate_sa.yaml --checkpoint out/plate_sa/checkpoint_412.h5 \\\n"
+      "      --into plate_stations --stations 0.5,1.0,1.5\n"
+      "  mpirun -np 2 wallrans extract case.yaml --checkpoint run/checkpoint_80.h5 --into extracted\n\n"
+      "It reads the checkpoint as a restart does, computes the wall data as at the end of a run (the\n"
+      "same numbers the run wrote from that checkpoint) and prints the answers table. The run\n"
+      "directory is left untouched (no lock taken), so it may extract from a run in progress.\n"
+      "Outputs in DIR: wall.csv and profile_x<X>.csv, with the columns of a run's (wallrans run "
+      "--help).\n\n" +
+      std::string(exit_text));
   CLI::App* version = app.add_subcommand("version", "print the version");
   version->allow_extras();
 
@@ -203,6 +237,13 @@ CommandLine parse_command_line(int argc, const char* const* argv) {
     }
     result.run.case_file = grid_arguments[0];
     result.grid_file = grid_arguments[1];
+  } else if (result.command == "extract") {
+    if (case_files.size() != 1) {
+      throw InputError("command line: extract: expected exactly one case file, got " +
+                       std::to_string(case_files.size()));
+    }
+    result.extract.case_file = case_files[0];
+    if (!stations.empty()) result.extract.stations = parse_station_list(stations);
   } else if (result.command == "run" || result.command == "check") {
     if (case_files.size() != 1) {
       throw InputError("command line: " + result.command + ": expected exactly one case file, got " +

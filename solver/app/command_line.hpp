@@ -1,16 +1,18 @@
-// The command line of the `wallrans` program (CLI11): the commands run, check, write-grid and
-// version, their options, and the help text of each.
+// The command line of the `wallrans` program (CLI11): the commands run, check, write-grid,
+// extract and version, their options, and the help text of each.
 #pragma once
 
 #include <string>
 
+#include "app/extract.hpp"
 #include "app/run_case.hpp"
 
 namespace wallrans {
 
 struct CommandLine {
-  std::string command;  ///< "run", "check", "write-grid", "version", or "help"
+  std::string command;  ///< "run", "check", "write-grid", "extract", "version", or "help"
   RunOptions run;
+  ExtractOptions extract;
   std::string grid_file;  ///< write-grid: the file to write
   std::string help;       ///< "help": the text to print
 };

@@ -24,6 +24,8 @@ int main(int argc, char** argv) {
       if (rank == 0) std::printf("wallrans %s\n", WALLRANS_VERSION);
     } else if (a.command == "check") {
       code = wallrans::check_case(MPI_COMM_WORLD, a.run);
+    } else if (a.command == "extract") {
+      code = wallrans::extract_from_checkpoint(MPI_COMM_WORLD, a.extract);
     } else if (a.command == "write-grid") {
       code = wallrans::write_case_grid(MPI_COMM_WORLD, a.run.case_file, a.grid_file);
     } else {

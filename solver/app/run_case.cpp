@@ -13,18 +13,19 @@
 #include <memory>
 
 #include "app/case_identity.hpp"
+#include "app/case_setup.hpp"
 #include "app/checkpointing.hpp"
 #include "app/divergence.hpp"
+#include "app/flow_report.hpp"
 #include "app/petsc_option_checks.hpp"
-#include "app/resource_guard.hpp"
 #include "app/progress.hpp"
+#include "app/resource_guard.hpp"
 #include "app/run_directory.hpp"
 #include "app/run_outputs.hpp"
 #include "app/run_summary.hpp"
 #include "app/stop_signals.hpp"
 #include "app/wall_resolution.hpp"
 #include "app/well_posedness.hpp"
-#include "app/flow_report.hpp"
 #include "core/atomic_file.hpp"
 #include "core/error.hpp"
 #include "core/utc_time.hpp"
@@ -62,62 +63,17 @@ int kill_switch(int iteration) {
 }
 
 // Everything `run` settles before it builds the solver; `check` stops there.
-struct Setup {
-  CaseSpec spec;
-  std::unique_ptr<Grid> grid;
-  std::unique_ptr<BoundaryMap> boundaries;
-  std::string grid_note;  ///< what loading a grid file repaired ("" if nothing)
+struct Setup : CaseSetup {
   std::string case_id;
   RunDirectoryRequest directory;
   DirectoryContent content = DirectoryContent::empty;
   std::optional<std::string> restart;
-  MemoryVerdict memory;                     ///< the memory estimate and the tightest host
-  std::vector<std::string> unused_options;  ///< PETSc options the solvers' trial set-up did not read
 };
 
-// Collective. Loads the case and builds its grid and boundary map, after the checks that need
-// neither (PETSc options, cell count, memory for `use`). Messages of the generators and the
-// boundary map get the case file name.
-Setup build(MPI_Comm comm, const std::string& case_file, MemoryUse use) {
-  Setup s;
-  s.spec = load_case_file(case_file);
-  check_grid_options(s.spec);
-  if (use == MemoryUse::run) s.unused_options = probe_solver_options(comm, s.spec);
-  const std::string grid_key = case_location(s.spec, s.spec.grid.line) + ": key 'grid.";
-  try {
-    if (s.spec.grid.file.empty()) {
-      check_cell_count(s.spec, s.spec.grid.cells_x, s.spec.grid.cells_y);
-      s.memory =
-          check_memory(comm, s.spec, s.spec.grid.cells_x, s.spec.grid.cells_y, use, grid_key + "cells'");
-      NodeCoordinates nodes = generate_nodes(s.spec.grid);
-      s.grid = std::make_unique<Grid>(comm, std::move(nodes), s.spec.periodic.axis == PeriodicAxis::x);
-      s.boundaries = std::make_unique<BoundaryMap>(s.spec, s.grid->nodes());
-    } else {
-      // Segments on a file grid are resolved against its patches (and its orientation).
-      CaseGrid loaded = load_case_grid(comm, s.spec);
-      check_cell_count(s.spec, loaded.nodes.cells_x, loaded.nodes.cells_y);
-      s.memory =
-          check_memory(comm, s.spec, loaded.nodes.cells_x, loaded.nodes.cells_y, use, grid_key + "file'");
-      s.grid_note = loaded.note;
-      s.grid = std::make_unique<Grid>(comm, std::move(loaded.nodes), s.spec.periodic.axis == PeriodicAxis::x);
-      CaseSpec resolved = s.spec;
-      resolved.boundaries = loaded.segments;
-      s.boundaries = std::make_unique<BoundaryMap>(resolved, s.grid->nodes());
-    }
-  } catch (const InputError& e) {
-    // Messages of the boundary map already name the file and segment line; the generators and
-    // the grid metrics name the grid key, and get the grid section's line here.
-    const std::string text = e.what();
-    if (text.rfind(case_file, 0) == 0) throw;
-    throw InputError(case_file + ":" + std::to_string(s.spec.grid.line) + ": " + text);
-  }
-  if (use == MemoryUse::run) check_flux_balance(s.spec, *s.boundaries);
-  return s;
-}
-
-// Collective. build(), then judges the run directory and the restart checkpoint.
+// Collective. build_case(), then judges the run directory and the restart checkpoint.
 Setup prepare(MPI_Comm comm, const RunOptions& options) {
-  Setup s = build(comm, options.case_file, MemoryUse::run);
+  Setup s;
+  static_cast<CaseSetup&>(s) = build_case(comm, options.case_file, MemoryUse::run);
   CaseSpec& spec = s.spec;
   if (options.output_directory) spec.output.directory = *options.output_directory;
   if (options.max_iterations) spec.iterations.max = *options.max_iterations;
@@ -474,7 +430,7 @@ int check_case(MPI_Comm comm, const RunOptions& options) {
 }
 
 int write_case_grid(MPI_Comm comm, const std::string& case_file, const std::string& grid_file) {
-  const Setup s = build(comm, case_file, MemoryUse::grid_only);
+  const CaseSetup s = build_case(comm, case_file, MemoryUse::grid_only);
   const GridFileContent content{s.grid->nodes(), case_patches(*s.boundaries)};
   write_grid_file(comm, grid_file, content);
   if (rank_of(comm) == 0) {

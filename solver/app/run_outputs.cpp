@@ -5,8 +5,8 @@
 #include <optional>
 #include <system_error>
 
-#include "io/profile_writer.hpp"
 #include "core/error.hpp"
+#include "io/profile_writer.hpp"
 #include "io/vtk_writer.hpp"
 
 namespace wallrans {
@@ -46,18 +46,25 @@ void write_field_series(const fs::path& dir, int final_iteration) {
   write_vtk_series((dir / field_series_name).string(), entries);
 }
 
-RunOutputs write_run_outputs(const CaseSpec& spec, const BoundaryMap& boundaries, const FlowSolver& solver,
+RunOutputs write_wall_outputs(const CaseSpec& spec, const BoundaryMap& boundaries, FlowSolver& solver,
+                              const TurbulenceModel& model, const fs::path& dir, bool with_wall_csv,
+                              MPI_Comm comm) {
+  solver.refresh_wall_data();
+  RunOutputs outputs;
+  outputs.answers = compute_answers(comm, spec, boundaries, solver,
+                                    with_wall_csv ? std::optional(dir / "wall.csv") : std::nullopt);
+  outputs.warnings = write_profiles(spec, solver, model, dir, comm);
+  return outputs;
+}
+
+RunOutputs write_run_outputs(const CaseSpec& spec, const BoundaryMap& boundaries, FlowSolver& solver,
                              const TurbulenceModel& model, const fs::path& dir, int iteration,
                              MPI_Comm comm) {
   int rank = 0;
   check_mpi(MPI_Comm_rank(comm, &rank));
   write_fields(solver, model, dir, "fields");
   if (rank == 0) write_field_series(dir, iteration);
-  RunOutputs outputs;
-  outputs.answers = compute_answers(comm, spec, boundaries, solver,
-                                    spec.output.wall_data ? std::optional(dir / "wall.csv") : std::nullopt);
-  outputs.warnings = write_profiles(spec, solver, model, dir, comm);
-  return outputs;
+  return write_wall_outputs(spec, boundaries, solver, model, dir, spec.output.wall_data, comm);
 }
 
 }  // namespace wallrans

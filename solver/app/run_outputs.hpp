@@ -36,9 +36,16 @@ struct RunOutputs {
   std::vector<std::string> warnings;  ///< for rank 0 to print
 };
 
-/// Collective. The final fields, the series file, the answers, wall.csv (if output.wall_data) and
-/// the profiles.
-RunOutputs write_run_outputs(const CaseSpec& spec, const BoundaryMap& boundaries, const FlowSolver& solver,
+/// Collective. Refreshes the solver's wall data (FlowSolver::refresh_wall_data), then computes the
+/// answers and writes <dir>/wall.csv (if `with_wall_csv`) and the profiles at
+/// spec.output.profiles_at_x. The same numbers at the end of a run and from its final checkpoint.
+RunOutputs write_wall_outputs(const CaseSpec& spec, const BoundaryMap& boundaries, FlowSolver& solver,
+                              const TurbulenceModel& model, const std::filesystem::path& dir,
+                              bool with_wall_csv, MPI_Comm comm);
+
+/// Collective. The final fields, the series file, then write_wall_outputs (wall.csv if
+/// output.wall_data).
+RunOutputs write_run_outputs(const CaseSpec& spec, const BoundaryMap& boundaries, FlowSolver& solver,
                              const TurbulenceModel& model, const std::filesystem::path& dir, int iteration,
                              MPI_Comm comm);
 

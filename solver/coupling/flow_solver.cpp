@@ -256,6 +256,18 @@ void FlowSolver::update_velocity_gradients() {
 }
 
 void FlowSolver::update_pressure_gradient_and_boundary_values() {
+  update_pressure_boundary_values();
+  lsq_all_->compute(p_, p_b_, grad_p_);
+  grad_p_.exchange();
+}
+
+void FlowSolver::refresh_wall_data() {
+  if (!velocity_gradients_current_) update_velocity_gradients();
+  update_pressure_boundary_values();
+  refresh_wall_shear();
+}
+
+void FlowSolver::update_pressure_boundary_values() {
   // Where the pressure is not imposed, the boundary value is extrapolated linearly along the face
   // normal from the two nearest cells (cell values moved onto the normal with the previous
   // gradient), which is second-order accurate; the value then enters the least-squares fit like
@@ -281,8 +293,6 @@ void FlowSolver::update_pressure_gradient_and_boundary_values() {
       if (s2 > 1.05 * s1) p_b_[k] = v1 - s1 * (v2 - v1) / (s2 - s1);
     }
   }
-  lsq_all_->compute(p_, p_b_, grad_p_);
-  grad_p_.exchange();
 }
 
 IterationStatus FlowSolver::iterate() {

@@ -126,6 +126,11 @@ class FlowSolver {
   const Grid& grid() const { return grid_; }
   /// Local: the no-slip wall faces owned by this rank.
   std::vector<WallSample> wall_samples() const;
+  /// Collective: brings what wall_samples() reads up to the current state: the velocity gradients
+  /// (stale right after a restart) and the boundary pressure, extrapolated from the current
+  /// (corrected) pressure. An iteration recomputes both before it uses them, so a continuation is
+  /// unchanged; the outputs of a run and of its final checkpoint then agree.
+  void refresh_wall_data();
   /// The boundary faces of the owned cells (global-id order) and the volume flux through each
   /// [m^2/s], positive out of the domain (same order).
   const std::vector<BoundaryFace>& boundary_faces() const { return bfaces_; }
@@ -181,6 +186,7 @@ class FlowSolver {
   void predict_boundary_fluxes_from_velocity();
   void update_velocity_gradients();
   void update_pressure_gradient_and_boundary_values();
+  void update_pressure_boundary_values();
   void assemble_momentum(ResidualNorms& residual);
   void solve_momentum(IterationStatus& status);
   void predict_fluxes();

@@ -16,10 +16,11 @@
 #include <vector>
 
 #include "core/error.hpp"
+#include "io/case_keys.hpp"
 #include "io/profile_reader.hpp"
 #include "io/yaml_reader.hpp"
-#include "meshes/step_grid.hpp"
 #include "meshes/hill.hpp"
+#include "meshes/step_grid.hpp"
 
 namespace wallrans {
 
@@ -29,9 +30,9 @@ using yaml_reader::number_text;
 using yaml_reader::Section;
 using yaml_reader::Value;
 
-constexpr std::array all_generators{GridGenerator::channel, GridGenerator::cavity, GridGenerator::plate,
-                                    GridGenerator::skewed_box, GridGenerator::step,
-                                     GridGenerator::hill_channel};
+constexpr std::array all_generators{GridGenerator::channel, GridGenerator::cavity,
+                                    GridGenerator::plate,   GridGenerator::skewed_box,
+                                    GridGenerator::step,    GridGenerator::hill_channel};
 constexpr std::array all_sides{Side::left, Side::right, Side::bottom, Side::top};
 constexpr std::array all_kinds{BoundaryKind::wall, BoundaryKind::inflow, BoundaryKind::outflow,
                                BoundaryKind::slip, BoundaryKind::opening};
@@ -116,8 +117,7 @@ std::string text_or(const Section& section, const char* key, const std::string& 
 }
 
 FlowSpec read_flow(const Value& value) {
-  const Section section = value.section({"kinematic_viscosity", "reference_velocity", "reference_length",
-                                         "reference_pressure", "body_force", "initial_velocity"});
+  const Section section = value.section(keys_of("flow"));
   FlowSpec flow;
   flow.kinematic_viscosity =
       section.require("kinematic_viscosity", positive_number).number(positive_number, is_positive);
@@ -216,11 +216,7 @@ std::string path_from_case(const Value& file, const std::string& what) {
 }
 
 GridSpec read_grid(const Value& value) {
-  const Section section =
-      value.section({"file", "generator", "cells", "length", "height", "first_cell_height", "run_up",
-                     "run_up_cells", "leading_edge_spacing", "skew_amplitude", "step_height",
-                     "upstream_length", "upstream_cells", "step_cells", "corner_spacing", "top_cell_height",
-                     "hill_height"});
+  const Section section = value.section(keys_of("grid"));
   GridSpec grid;
   grid.line = value.line();
   if (const auto file = section.find("file")) {
@@ -263,7 +259,7 @@ GridSpec read_grid(const Value& value) {
 }
 
 PeriodicSpec read_periodic(const Value& value, const GridSpec& grid) {
-  const Section section = value.section({"axis", "mean_pressure_gradient", "bulk_velocity"});
+  const Section section = value.section(keys_of("periodic"));
   PeriodicSpec periodic;
   const Value axis = section.require("axis", one_of(periodic_axes));
   periodic.axis = read_enum(axis, periodic_axes);
@@ -338,8 +334,7 @@ void read_segment_place(const Section& section, const GridSpec& grid, BoundarySe
 
 BoundarySegmentSpec read_segment(const Value& entry, const FlowSpec& flow, const GridSpec& grid,
                                  const PeriodicSpec& periodic, int periodic_line) {
-  const Section section = entry.section({"side", "patch", "kind", "from", "to", "faces", "velocity",
-                                         "pressure", "profile_file", "profile_shift"});
+  const Section section = entry.section(keys_of("boundaries"));
   BoundarySegmentSpec segment;
   segment.line = entry.line();
   read_segment_place(section, grid, segment);
@@ -404,7 +399,7 @@ std::vector<BoundarySegmentSpec> read_boundaries(const Value& value, const FlowS
 // One solid region: index ranges i, j (inclusive, within the grid) and coordinate ranges x, y of
 // the cell centre, any combination but at least one.
 SolidRegionSpec read_solid_region(const Value& entry, const GridSpec& grid) {
-  const Section section = entry.section({"i", "j", "x", "y"});
+  const Section section = entry.section(keys_of("solid_regions"));
   SolidRegionSpec region;
   region.line = entry.line();
   if (!section.has("i") && !section.has("j") && !section.has("x") && !section.has("y")) {
@@ -446,9 +441,7 @@ std::vector<SolidRegionSpec> read_solid_regions(const Value& value, const GridSp
 }
 
 TurbulenceSpec read_turbulence(const Value& value) {
-  const Section section =
-      value.section({"model", "variant", "freestream_viscosity_ratio", "freestream_intensity", "outer_length",
-                     "relax", "relax_diffusive_part", "convection"});
+  const Section section = value.section(keys_of("turbulence"));
   TurbulenceSpec turbulence;
   turbulence.line = value.line();
   if (const auto model = section.find("model")) {
@@ -497,10 +490,7 @@ TurbulenceSpec read_turbulence(const Value& value) {
 }
 
 IterationSpec read_iterations(const Value& value) {
-  const Section section = value.section({"coupling", "max", "residual_drop", "relax_velocity",
-                                         "relax_pressure", "relax_diffusive_part", "pressure_setup_every",
-                                         "coarse_grids", "coarse_residual_drop", "coarse_max", "convection", "report_every",
-                                         "petsc_options"});
+  const Section section = value.section(keys_of("iterations"));
   IterationSpec iterations;
   if (const auto coupling = section.find("coupling")) {
     iterations.coupling = read_enum(*coupling, all_couplings);
@@ -538,7 +528,7 @@ IterationSpec read_iterations(const Value& value) {
 }
 
 OutputSpec read_output(const Value& value) {
-  const Section section = value.section({"directory", "fields_every", "wall_data", "profiles_at_x"});
+  const Section section = value.section(keys_of("output"));
   OutputSpec output;
   output.directory = text_or(section, "directory", output.directory, false);
   output.fields_every = integer_or(section, "fields_every", output.fields_every, "an integer >= 0",
@@ -552,7 +542,7 @@ OutputSpec read_output(const Value& value) {
 }
 
 CheckpointSpec read_checkpoint(const Value& value) {
-  const Section section = value.section({"every", "every_seconds", "keep", "restart_from", "walltime"});
+  const Section section = value.section(keys_of("checkpoint"));
   CheckpointSpec checkpoint;
   checkpoint.every =
       integer_or(section, "every", checkpoint.every, "an integer >= 0", [](int n) { return n >= 0; });
@@ -687,8 +677,7 @@ void read_profile_tables(CaseSpec& spec) {
 
 CaseSpec parse_case_text(const std::string& text, const std::string& source_name) {
   const Value document = yaml_reader::parse_document(text, source_name);
-  const Section top = document.section({"title", "flow", "grid", "boundaries", "solid_regions", "periodic",
-                                        "turbulence", "iterations", "output", "checkpoint"});
+  const Section top = document.section(keys_of(""));
   CaseSpec spec;
   spec.source_file = source_name;
   spec.title = text_or(top, "title", spec.title, false);

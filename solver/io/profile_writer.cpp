@@ -8,9 +8,9 @@
 #include <cstdio>
 #include <limits>
 #include <set>
+#include <string>
 #include <tuple>
 #include <utility>
-#include <string>
 #include <vector>
 
 #include "core/error.hpp"
@@ -117,6 +117,13 @@ std::string profile_file_name(double x) {
   return buffer;
 }
 
+int profile_column(const Grid& grid, double x) {
+  int column = -1;
+  for (int i = 0; i < grid.cells_x(); ++i)
+    if (grid.node(i, 0).x <= x && x < grid.node(i + 1, 0).x) column = i;
+  return column;
+}
+
 std::vector<std::string> write_profiles(const CaseSpec& spec, const FlowSolver& solver,
                                         const TurbulenceModel& model, const std::filesystem::path& directory,
                                         MPI_Comm comm) {
@@ -124,8 +131,9 @@ std::vector<std::string> write_profiles(const CaseSpec& spec, const FlowSolver& 
   int rank = 0;
   check_mpi(MPI_Comm_rank(comm, &rank));
   const double nu = spec.flow.kinematic_viscosity;
-  std::vector<std::string> columns{"x",           "y",      "wall_distance", "y_plus", "u_tangential",
-                                   "u_plus",      "nut_over_nu", "wall_x",  "wall_y", "u", "v"};
+  std::vector<std::string> columns{"x",      "y",           "wall_distance", "y_plus", "u_tangential",
+                                   "u_plus", "nut_over_nu", "wall_x",        "wall_y", "u",
+                                   "v"};
   const std::string variable = model_variable_column(spec.turbulence.model);
   const Field* variable_field = nullptr;
   for (const auto& [name, field] : model.output_fields())
@@ -135,9 +143,7 @@ std::vector<std::string> write_profiles(const CaseSpec& spec, const FlowSolver& 
   std::set<std::string> written;
   for (const double x : spec.output.profiles_at_x) {
     const std::string name = profile_file_name(x);
-    int column = -1;
-    for (int i = 0; i < grid.cells_x(); ++i)
-      if (grid.node(i, 0).x <= x && x < grid.node(i + 1, 0).x) column = i;
+    const int column = profile_column(grid, x);
     BottomFace face;
     if (column < 0 || !bottom_face(spec, solver, column, face)) {
       warnings.push_back("wallrans: warning: profile station x = " + std::to_string(x) +
@@ -153,11 +159,14 @@ std::vector<std::string> write_profiles(const CaseSpec& spec, const FlowSolver& 
     const Vec2 bottom_normal =
         (1.0 / norm(face.b - face.a)) * Vec2{(face.b - face.a).y, -(face.b - face.a).x};  // out of the fluid
     std::vector<std::vector<double>> rows;
-    auto add_row = [&](Vec2 at, double distance, double ut, double u_tau, Vec2 wall, Vec2 velocity, double nut,
-                       double variable_value) {
-      std::vector<double> row{at.x,   at.y,   distance, u_tau > 0 ? distance * u_tau / nu : nan,
-                              ut,     u_tau > 0 ? ut / u_tau : nan, nut / nu, wall.x, wall.y,
-                              velocity.x, velocity.y};
+    auto add_row = [&](Vec2 at, double distance, double ut, double u_tau, Vec2 wall, Vec2 velocity,
+                       double nut, double variable_value) {
+      std::vector<double> row{at.x,      at.y,
+                              distance,  u_tau > 0 ? distance * u_tau / nu : nan,
+                              ut,        u_tau > 0 ? ut / u_tau : nan,
+                              nut / nu,  wall.x,
+                              wall.y,    velocity.x,
+                              velocity.y};
       if (variable_field) row.push_back(variable_value);
       rows.push_back(std::move(row));
     };
@@ -183,8 +192,8 @@ std::vector<std::string> write_profiles(const CaseSpec& spec, const FlowSolver& 
           add_row(c, dot(face.centre - c, bottom_normal), u.x, 0.0, face.centre, u, nut, value);
           continue;
         }
-        add_row(c, distance, dot(u, nearest->tangent) - nearest->wall_speed, nearest->u_tau, nearest->centre, u,
-                nut, value);
+        add_row(c, distance, dot(u, nearest->tangent) - nearest->wall_speed, nearest->u_tau, nearest->centre,
+                u, nut, value);
       }
     }
     auto all = gather_rows(comm, rows, static_cast<int>(columns.size()));

@@ -11,6 +11,7 @@
 
 #include "core/case_spec.hpp"
 #include "coupling/flow_solver.hpp"
+#include "grid/grid.hpp"
 #include "models/turbulence_model.hpp"
 
 namespace wallrans {
@@ -18,6 +19,10 @@ namespace wallrans {
 /// Local. The file name of the profile at station x: "profile_x<x>.csv" with x in "%.6g" form
 /// (e.g. profile_x0.5.csv, profile_x-0.25.csv, profile_x1e-05.csv).
 std::string profile_file_name(double x);
+
+/// Local. The grid column whose bottom nodes bracket station x (node(i, 0).x <= x < node(i + 1, 0).x),
+/// or -1 if none does (the station lies outside the grid).
+int profile_column(const Grid& grid, double x);
 
 /// Collective. For each station of spec.output.profiles_at_x, writes `directory`/profile_x<x>.csv
 /// (rank 0) along the fluid cells of the grid column containing it, sorted by y. Each cell is

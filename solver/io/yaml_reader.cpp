@@ -114,9 +114,9 @@ std::optional<int> to_integer(const YAML::Node& node) {
   return static_cast<int>(n);
 }
 
-std::string join(std::initializer_list<const char*> names) {
+std::string join(const std::vector<std::string>& names) {
   std::string text;
-  for (const char* name : names) text += (text.empty() ? "" : ", ") + std::string(name);
+  for (const std::string& name : names) text += (text.empty() ? "" : ", ") + name;
   return text;
 }
 
@@ -220,9 +220,9 @@ std::vector<Value> Value::items(const std::string& expected) const {
   return values;
 }
 
-Section Value::section(std::initializer_list<const char*> allowed) const { return Section(*this, allowed); }
+Section Value::section(const std::vector<std::string>& allowed) const { return Section(*this, allowed); }
 
-Section::Section(const Value& self, std::initializer_list<const char*> allowed) : self_(self) {
+Section::Section(const Value& self, const std::vector<std::string>& allowed) : self_(self) {
   const std::string keys = join(allowed);
   if (!self.node().IsMap()) self.fail("a mapping with keys " + keys);
   for (const auto& entry : self.node()) {
@@ -234,7 +234,7 @@ Section::Section(const Value& self, std::initializer_list<const char*> allowed) 
     const std::string name = key_node.Scalar();
     const std::string key = child_key(name.c_str());
     bool known = false;
-    for (const char* allowed_name : allowed) known = known || name == allowed_name;
+    for (const std::string& allowed_name : allowed) known = known || name == allowed_name;
     if (!known) {
       const std::string where = self.key().empty() ? "a top-level key" : "a key of '" + self.key() + "'";
       throw_at(self.source(), line, shorten(key), where + " (" + keys + ")", "an unknown key");

@@ -50,7 +50,7 @@ class Value {
   /// The entries of a list, each keyed "<key>[i]" (counted from 0) at its own line.
   std::vector<Value> items(const std::string& expected) const;
   /// This value as a mapping whose keys must all be in `allowed` (each at most once).
-  Section section(std::initializer_list<const char*> allowed) const;
+  Section section(const std::vector<std::string>& allowed) const;
 
  private:
   std::string source_;
@@ -62,7 +62,7 @@ class Value {
 /// A mapping whose keys have been checked: unknown, repeated and non-scalar keys are errors.
 class Section {
  public:
-  Section(const Value& self, std::initializer_list<const char*> allowed);
+  Section(const Value& self, const std::vector<std::string>& allowed);
 
   const Value& self() const { return self_; }
   bool has(const char* name) const { return find(name).has_value(); }
