@@ -71,7 +71,12 @@ GridResult solve_on(const CaseSpec& shipped, const NodeCoordinates& nodes) {
   const auto shear = test_support::bottom_wall_shear(solver, MPI_COMM_WORLD);
   const auto zeros = shear_sign_changes(shear.x, shear.tau, hill_period_in_h * h);
   g.n_zeros = zeros.size();
-  for (const ShearSignChange& z : zeros) (z.is_separation ? g.separation : g.reattachment) = z.s / h;
+  // The primary bubble: the first separation and the last reattachment along the floor from the
+  // crest. Pairs between them are grazing contacts inside the bubble (on the 384 x 192 grid two,
+  // at x/h 0.91-0.95 and 1.78-1.83, where Cf reaches +3e-6 against -6e-4 in the bubble; measured
+  // 2026-12-03); they are counted and printed, not taken as the bubble's ends.
+  if (!zeros.empty() && zeros.front().is_separation) g.separation = zeros.front().s / h;
+  if (!zeros.empty() && !zeros.back().is_separation) g.reattachment = zeros.back().s / h;
   double y_plus = 0.0;
   for (const WallSample& w : solver.wall_samples())
     y_plus = std::max(
@@ -109,9 +114,11 @@ TEST(HillGridConvergence, SeparationAndReattachmentGci) {
     // Held to 1e-6 and balanced to 1e-10 of the through-flow at convergence (issue 8).
     EXPECT_LT(std::abs(g.bulk_error), 1e-6);
     EXPECT_LT(g.mass_imbalance, 1e-10);
-    // One bubble: separation on the lee slope of the hill, reattachment downstream of its foot
-    // and before the next crest.
-    ASSERT_EQ(g.n_zeros, 2u);
+    // One primary bubble: separation on the lee slope of the hill, reattachment downstream of
+    // its foot and before the next crest (zeros come in pairs on a periodic wall).
+    ASSERT_GE(g.n_zeros, 2u);
+    EXPECT_EQ(g.n_zeros % 2, 0u);
+    ASSERT_TRUE(std::isfinite(g.separation) && std::isfinite(g.reattachment));
     EXPECT_GT(g.separation, 0.0);
     EXPECT_LT(g.separation, foot);
     EXPECT_GT(g.reattachment, foot);

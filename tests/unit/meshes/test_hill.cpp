@@ -1,5 +1,5 @@
 // The periodic-hill contour against the checks of its source (the spline fit of the ERCOFTAC
-// geometry file, quoted in /work/shared/reference-data/periodic-hill/README.md: value and slope
+// geometry file, quoted in tests/data/periodic-hill/README.md: value and slope
 // continuous at the joints 9, 14, 20, 30, 40 mm, through the fitted points, f(0) = 28 mm and
 // f(54 mm) = 0), and the body-fitted grid of the hill_channel generator.
 #include <gtest/gtest.h>
