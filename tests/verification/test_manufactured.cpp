@@ -57,7 +57,7 @@ struct Errors {
 };
 
 Errors solve_on(int n, ConvectionScheme scheme) {
-  CaseSpec spec = load_case_file(std::string(WALLRANS_SOURCE_DIR) + "/configs/skewed_box_mms.yaml");
+  CaseSpec spec = load_case_file(std::string(WALLRANS_TEST_DATA) + "/manufactured/skewed_box_base.yaml");
   EXPECT_EQ(spec.flow.kinematic_viscosity, nu);  // the source below is built for this viscosity
   spec.grid.cells_x = n;
   spec.grid.cells_y = n;
