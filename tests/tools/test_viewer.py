@@ -92,10 +92,29 @@ class Viewer(TempDirTest):
         self.assertGreaterEqual(opened[str(series[0])]["times"], 4, "the series should hold iterations 5..20")
 
 
+def viewer_missing():
+    """Why the viewer cannot run here, or None. The paraview package alone leaves a pvbatch that
+    cannot import paraview.simple (python3-paraview removed when the build packages come back)."""
+    pvbatch = shutil.which("pvbatch")
+    if pvbatch is None:
+        return "pvbatch not found"
+    probe = subprocess.run(
+        [pvbatch, "-c", "from paraview.simple import OpenDataFile"],
+        stdout=subprocess.PIPE,
+        stderr=subprocess.STDOUT,
+        text=True,
+        timeout=120,
+    )
+    if probe.returncode != 0:
+        return "pvbatch cannot import paraview.simple (python3-paraview missing)"
+    return None
+
+
 if __name__ == "__main__":
-    if shutil.which("pvbatch") is None:
+    missing = viewer_missing()
+    if missing is not None:
         print(
-            "SKIPPED: pvbatch not found. Install the viewer only for this test: apt-get install "
+            f"SKIPPED: {missing}. Install the viewer only for this test: apt-get install "
             "--no-install-recommends paraview python3-paraview (this removes libvtk9-dev), run "
             "ctest -L viewer, then reinstall the build packages with tools/setup-deps.sh."
         )
