@@ -170,8 +170,11 @@ CommandLine parse_command_line(int argc, const char* const* argv) {
   write_grid->add_option("FILES", grid_arguments, "the case file (YAML) and the grid file to write (HDF5)")
       ->type_name("CASE.yaml GRID.h5");
   write_grid->allow_extras();
-  write_grid->footer("Example: wallrans write-grid configs/plate_sa.yaml plate_grid.h5\n\n" +
-                     std::string(exit_text));
+  write_grid->footer(
+      "Example: wallrans write-grid configs/plate_sa.yaml plate_grid.h5\n"
+      "Writes plate_grid.h5 and, for a viewer, plate_grid.pvts with one plate_grid_<rank>.vts\n"
+      "per rank (cell data: solid, cell_volume, cell_index).\n\n" +
+      std::string(exit_text));
   CLI::App* extract = app.add_subcommand(
       "extract",
       "write wall data and profiles of a checkpoint into a folder of your choice, without iterating");

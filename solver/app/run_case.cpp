@@ -433,9 +433,18 @@ int write_case_grid(MPI_Comm comm, const std::string& case_file, const std::stri
   const CaseSetup s = build_case(comm, case_file, MemoryUse::grid_only);
   const GridFileContent content{s.grid->nodes(), case_patches(*s.boundaries)};
   write_grid_file(comm, grid_file, content);
+  // The same grid for a viewer, beside the grid file: <stem>.pvts with the solid cells marked
+  // (cell_volume and cell_index come with every VTK file we write).
+  Field solid(*s.grid);
+  const std::vector<unsigned char> mask = s.boundaries->solid().ghosted_mask(*s.grid);
+  for (size_t c = 0; c < mask.size(); ++c) solid[c] = mask[c] != 0 ? 1.0 : 0.0;
+  const fs::path grid_path(grid_file);
+  const std::string view = write_vtk_fields(*s.grid, {{"solid", &solid}}, {},
+                                            grid_path.parent_path().string(), grid_path.stem().string());
   if (rank_of(comm) == 0) {
-    std::printf("wallrans: wrote the grid of '%s' (%d x %d cells, %zu patches) to %s\n", case_file.c_str(),
-                s.grid->cells_x(), s.grid->cells_y(), content.patches.size(), grid_file.c_str());
+    std::printf("wallrans: wrote the grid of '%s' (%d x %d cells, %zu patches) to %s and %s\n",
+                case_file.c_str(), s.grid->cells_x(), s.grid->cells_y(), content.patches.size(),
+                grid_file.c_str(), view.c_str());
   }
   return 0;
 }

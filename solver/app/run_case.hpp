@@ -34,7 +34,8 @@ int check_case(MPI_Comm comm, const RunOptions& options);
 
 /// Collective. Loads and validates the case, builds its grid and boundary map, and writes the
 /// grid to `grid_file` in our HDF5 grid layout (docs/grid-file.md) with one patch per boundary
-/// segment run. Returns 0 or throws InputError (nothing written).
+/// segment run, and beside it the same grid for a viewer (<stem>.pvts and one <stem>_<rank>.vts
+/// per rank, cell data "solid"). Returns 0 or throws InputError (nothing written).
 int write_case_grid(MPI_Comm comm, const std::string& case_file, const std::string& grid_file);
 
 }  // namespace wallrans

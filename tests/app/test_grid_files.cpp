@@ -1,10 +1,17 @@
 // Grid files end to end with the real programs: `wallrans write-grid`, the converter
 // `wallrans-cgns` and Debian's `cgnscheck`. A generated grid survives HDF5 -> CGNS -> HDF5 bit for
-// bit, the CGNS file passes cgnscheck, a run on the file grid equals the run on the generated grid
-// bit for bit (1 and 2 ranks), a left-handed file is repaired with a note, and bad grid or CGNS
-// files stop the programs with one line, exit status 2 and nothing written.
+// bit, the CGNS file passes cgnscheck, the VTK view write-grid writes beside the grid file holds
+// the same nodes and the solid cells (read back by VTK's reader), a run on the file grid equals the run on
+// the generated grid bit for bit (1 and 2 ranks), a left-handed file is repaired with a note, and bad grid or
+// CGNS files stop the programs with one line, exit status 2 and nothing written.
 #include <cgnslib.h>
 #include <gtest/gtest.h>
+#include <vtkCellData.h>
+#include <vtkDataArray.h>
+#include <vtkNew.h>
+#include <vtkPoints.h>
+#include <vtkStructuredGrid.h>
+#include <vtkXMLPStructuredGridReader.h>
 
 #include <algorithm>
 #include <array>
@@ -131,6 +138,61 @@ TEST(GridFiles, CgnsPassesCgnscheckAndConvertsBackBitForBit) {
                                            {"bottom_slip", Side::bottom, 7, 11, "slip"},
                                            {"top_wall", Side::top, 0, 11, "wall"}};
   EXPECT_EQ(back.patches, expected);
+}
+
+// write-grid on 2 ranks writes, beside the grid file, a VTK view of the same grid: VTK's own reader
+// gets every node of grid.h5 and a `solid` array that marks exactly the cells of solid_regions.
+TEST(GridFiles, WriteGridAlsoWritesAVtkViewWithTheSolidCells) {
+  const ScratchDirectory scratch("wallrans_grid_vtk");
+  const fs::path dir = scratch.path();
+  std::string with_solid = generated_case;
+  with_solid.replace(
+      with_solid.find("  - {side: bottom, kind: wall, to: 1.2}\n  - {side: bottom, kind: slip, from: 1.2}\n"),
+      std::string("  - {side: bottom, kind: wall, to: 1.2}\n  - {side: bottom, kind: slip, from: 1.2}\n")
+          .size(),
+      "  - {side: bottom, kind: wall}\n");
+  with_solid += "solid_regions:\n  - {i: [3, 5], j: [0, 2]}\n";
+  write_text(dir / "solid.yaml", with_solid);
+  fs::create_directories(dir / "view");
+  const ProgramResult written =
+      run_program_mpi(2, dir, {"write-grid", "solid.yaml", "view/grid.h5"}, dir / "logs", "write_grid");
+  ASSERT_EQ(written.exit_status, 0) << written.out << written.err;
+  EXPECT_NE(written.out.find("view/grid.pvts"), std::string::npos) << written.out;
+  for (const char* piece : {"grid.pvts", "grid_0.vts", "grid_1.vts"})
+    EXPECT_TRUE(fs::exists(dir / "view" / piece)) << piece;
+
+  const GridFileContent content = grid_file_format::read_file((dir / "view" / "grid.h5").string());
+  vtkNew<vtkXMLPStructuredGridReader> reader;
+  reader->SetFileName((dir / "view" / "grid.pvts").c_str());
+  reader->Update();
+  vtkStructuredGrid* view = reader->GetOutput();
+  const int nx = content.nodes.cells_x, ny = content.nodes.cells_y;
+  ASSERT_EQ(view->GetNumberOfCells(), nx * ny);
+  ASSERT_EQ(view->GetNumberOfPoints(), static_cast<vtkIdType>(content.nodes.nodes.size()));
+  int dims[3];
+  view->GetDimensions(dims);
+  ASSERT_EQ(dims[0], nx + 1);
+  // Both index nodes i-fastest; the view's points are float64, so they are the grid file's nodes.
+  double worst = 0.0;
+  for (vtkIdType n = 0; n < view->GetNumberOfPoints(); ++n) {
+    double p[3];
+    view->GetPoint(n, p);
+    worst = std::max(
+        {worst, std::abs(p[0] - content.nodes.nodes[n].x), std::abs(p[1] - content.nodes.nodes[n].y)});
+  }
+  EXPECT_EQ(worst, 0.0);
+  vtkDataArray* solid = view->GetCellData()->GetArray("solid");
+  ASSERT_NE(solid, nullptr);
+  int solid_cells = 0;
+  for (int j = 0; j < ny; ++j)
+    for (int i = 0; i < nx; ++i) {
+      const bool expected = i >= 3 && i <= 5 && j <= 2;
+      const double value = solid->GetComponent(static_cast<vtkIdType>(j) * nx + i, 0);
+      EXPECT_EQ(value, expected ? 1.0 : 0.0) << "cell " << i << ", " << j;
+      solid_cells += value == 1.0;
+    }
+  EXPECT_EQ(solid_cells, 9);
+  EXPECT_NE(view->GetCellData()->GetArray("cell_volume"), nullptr);
 }
 
 class RunOnFileGrid : public ::testing::TestWithParam<int> {};
