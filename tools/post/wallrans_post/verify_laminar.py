@@ -170,28 +170,43 @@ class Cavity(VerificationCase):
         test = "test_cavity: Cavity.Re100MatchesGhia"
         result.checks.append(converged_check(runs[names[0]], test))
         table_u, table_v = ref.ghia_tables()
-        (y, u), (x, v), _ = self._centrelines(runs[names[0]])
-        for label, line_pos, line_val, table, position, column, skip in (
-            ("u on x = 0.5 (Table I)", y, u, table_u, "y", "u(Re=100)", None),
-            ("v on y = 0.5 (Table II)", x, v, table_v, "x", "v(Re=100)", None),
+        lines = [self._centrelines(runs[n])[:2] for n in names[:2]]  # 129 and 65 cells: (u line, v line)
+        compared = []
+        for k, (label, table, position, column) in enumerate(
+            (
+                ("u on x = 0.5 (Table I)", table_u, "y", "u(Re=100)"),
+                ("v on y = 0.5 (Table II)", table_v, "x", "v(Re=100)"),
+            )
         ):
             points = table[position]
-            # Points between a wall and the first cell centre are the exact wall data: left out, as the test does.
-            inside = (points >= line_pos[0] - 1e-12) & (points <= line_pos[-1] + 1e-12)
-            ours = np.interp(points[inside], line_pos, line_val)
-            deviation = np.abs(ours - table[column][inside])
+            (fine_pos, fine_val), (coarse_pos, coarse_val) = lines[0][k], lines[1][k]
+            # Points between a wall and the first cell centre (of either grid) are the exact wall
+            # data: left out, as the test does.
+            inside = (points >= coarse_pos[0] - 1e-12) & (points <= coarse_pos[-1] + 1e-12)
+            ours = np.interp(points[inside], fine_pos, fine_val)
+            coarse = np.interp(points[inside], coarse_pos, coarse_val)
+            compared.append((label, points[inside], position, ours, coarse, table[column][inside]))
+        # The test's derived tolerance: U_ours + U_Ghia + 5e-5, U_ours = 3 max|fine - coarse| / (r^2 - 1)
+        # over both lines (two-grid estimate, Roache 1994), U_Ghia = 0.015 (from memory, see the test).
+        ratio = self.sizes[0] / self.sizes[1]
+        change = max(float(np.max(np.abs(ours - coarse))) for _, _, _, ours, coarse, _ in compared)
+        u_ours = 3.0 * change / (ratio**2 - 1.0)
+        tolerance = u_ours + 0.015 + 5e-5
+        for label, points, position, ours, _, table_values in compared:
+            deviation = np.abs(ours - table_values)
             worst = int(np.argmax(deviation))
             result.checks.append(
                 Check(
-                    f"{label}: max |ours - Ghia| over {int(inside.sum())} points, 129 x 129 cells",
+                    f"{label}: max |ours - Ghia| over {len(points)} points, 129 x 129 cells",
                     "Ghia table values",
                     ref.GHIA_SOURCE,
-                    f"{deviation.max():.4f} at {position} = {points[inside][worst]:.4f}",
+                    f"{deviation.max():.4f} at {position} = {points[worst]:.4f}",
                     f"{deviation.max():.4f}",
-                    "<= 0.02 U_lid",
-                    "test_cavity.cpp: 0.02 of the lid speed at every point; the test gives no derivation beyond it "
-                    "(Ghia's own second-order 129 x 129 solution is the reference)",
-                    deviation.max() <= 0.02,
+                    f"<= {tolerance:.4f} U_lid",
+                    f"test_cavity.cpp: U_ours + U_Ghia + 5e-5; U_ours = 3 max|u_129 - u_65| / (r^2 - 1) = "
+                    f"{u_ours:.4f} (two-grid estimate, Roache 1994); U_Ghia = 0.015, the tables' deviation "
+                    "from later higher-order solutions (about 0.01, from memory) with a safety factor 1.5",
+                    deviation.max() <= tolerance,
                     test,
                 )
             )
@@ -251,21 +266,40 @@ class Blasius(VerificationCase):
         target = 2.0 * ref.blasius_wall_curvature()
         test = "test_blasius: Blasius.SkinFrictionOverMidPlate"
         result.checks.append(converged_check(fine, test))
-        wall = fine.result().wall()
-        mid = (wall["x"] >= 0.25) & (wall["x"] <= 0.75)
-        scaled = wall["cf"][mid] * np.sqrt(u_inf * wall["x"][mid] / nu)
-        worst = float(np.max(np.abs(scaled / target - 1.0)))
+        coarse = runs[names[1]]  # half the cells per direction: the test's two-grid estimate
+
+        def scaled_friction(run):
+            w = run.result().wall()
+            on = w["x"] > 0
+            order = np.argsort(w["x"][on])
+            return w["x"][on][order], (w["cf"][on] * np.sqrt(u_inf * w["x"][on] / nu))[order]
+
+        def bl_theory(re_x):
+            # The test's departure from boundary-layer theory: 2.326 / (1.328 sqrt(Re_x)) (Imai 1957, from memory).
+            return 2.326 / (1.328 * np.sqrt(re_x))
+
+        x_f, s_f = scaled_friction(fine)
+        x_c, s_c = scaled_friction(coarse)
+        mid = (x_f >= 0.25) & (x_f <= 0.75)
+        scaled = s_f[mid]
+        error = np.abs(scaled / target - 1.0)
+        u_cf = 3.0 * float(np.max(np.abs(scaled - np.interp(x_f[mid], x_c, s_c)) / target)) / (2.0**2 - 1.0)
+        allowed = u_cf + bl_theory(u_inf * x_f[mid] / nu)
+        worst = float(np.max(error))
+        margin = float(np.min(allowed - error))
         result.checks.append(
             Check(
                 f"Cf sqrt(Re_x) over 0.25 <= x <= 0.75 m ({int(mid.sum())} wall faces; the test needs > 20)",
                 f"2 f''(0) = {target:.6f}",
                 ref.BLASIUS_SOURCE,
-                f"worst {scaled[np.argmax(np.abs(scaled / target - 1))]:.5f}",
+                f"worst {scaled[np.argmax(error)]:.5f}",
                 f"{100 * worst:.2f} %",
-                "within 2 %",
-                "test_blasius.cpp: 2 % without a written derivation; the three-grid GCI below bounds the discretisation "
-                "error, the rest is the elliptic solution's departure from boundary-layer theory near the leading edge",
-                worst <= 0.02 and mid.sum() > 20,
+                f"within {100 * allowed.min():.2f}-{100 * allowed.max():.2f} % (smallest margin {100 * margin:.2f} %)",
+                f"test_blasius.cpp, per face: U_ours + U_BL(x); U_ours = 3 max|fine - coarse| / (2^2 - 1) = "
+                f"{100 * u_cf:.2f} % (two-grid estimate, Roache 1994), U_BL = 2.326 / (1.328 sqrt(Re_x)), the next "
+                "term of the plate-drag expansion (Imai 1957, from memory) as the bound of the departure from "
+                "boundary-layer theory",
+                margin >= 0.0 and mid.sum() > 20,
                 test,
             )
         )
@@ -280,6 +314,19 @@ class Blasius(VerificationCase):
         table = ref.blasius_table()
         expected = np.interp(eta[keep], table["eta"], table["f'"])
         deviation = np.abs(u_mid[keep] / u_inf - expected)
+        # The coarse grid's column closest to x = 0.5 m, compared at the same eta (inside its range).
+        c_fields = coarse.result().fields()
+        c_cx, c_cy = c_fields.centres()
+        c_column = int(np.argmin(np.abs(0.5 * (c_fields.x[0, :-1] + c_fields.x[0, 1:]) - 0.5)))
+        c_eta = c_cy[:, c_column] * np.sqrt(u_inf / (nu * c_cx[:, c_column]))
+        c_keep = c_eta <= 8.0
+        c_u = c_fields.cells["velocity"][:, c_column, 0][c_keep] / u_inf
+        inside = (eta[keep] >= c_eta[c_keep][0]) & (eta[keep] <= c_eta[c_keep][-1])
+        change = float(np.max(np.abs(u_mid[keep][inside] / u_inf - np.interp(eta[keep][inside], c_eta[c_keep], c_u))))
+        change *= 3.0 / (2.0**2 - 1.0)  # two-grid estimate: F_s = 3, p = 2, r = 2
+        h = float(table["eta"][1] - table["eta"][0])
+        interpolation = h * h / 8.0 * float(np.max(np.abs(table["f"] * table["f''"]) / 2.0))
+        tolerance = change + bl_theory(u_inf * 0.5 / nu) + interpolation
         result.checks.append(
             Check(
                 f"u/U against f'(eta) at x = 0.5 m, eta <= 8 ({int(keep.sum())} cells; the test needs > 15)",
@@ -287,9 +334,10 @@ class Blasius(VerificationCase):
                 ref.BLASIUS_SOURCE,
                 f"max deviation {deviation.max():.4f}",
                 f"{deviation.max():.4f}",
-                "<= 0.01 U",
-                "test_blasius.cpp: 1 % of U at every cell, without a written derivation",
-                deviation.max() <= 0.01 and keep.sum() > 15,
+                f"<= {tolerance:.4f} U",
+                f"test_blasius.cpp: U_ours + U_BL(0.5 m) + h^2/8 max|f'''|; U_ours = {change:.4f} (two-grid "
+                f"estimate, r = 2), U_BL = {bl_theory(u_inf * 0.5 / nu):.4f}, table interpolation {interpolation:.1e}",
+                deviation.max() <= tolerance and keep.sum() > 15,
                 test,
             )
         )
@@ -319,7 +367,9 @@ class Blasius(VerificationCase):
                 label=n.replace("blasius_", "") + " cells",
             )
         ax_cf.axhline(target, color="k", label=f"Blasius 2 f''(0) = {target:.4f}")
-        ax_cf.axhspan(0.98 * target, 1.02 * target, color="0.85", label="test tolerance 2 %")
+        ax_cf.fill_between(
+            x_f[mid], target * (1 - allowed), target * (1 + allowed), color="0.85", label="test tolerance"
+        )
         ax_cf.axvspan(0.25, 0.75, color="C2", alpha=0.08)
         ax_cf.set_ylim(0.5, 0.8)
         ax_u.plot(table["eta"], table["f'"], "k-", label="f'(eta), Ganapol (2010)")
