@@ -114,6 +114,18 @@ SolverOptions::SolverOptions(const CaseOptionsText& case_options,
   check_petsc(PetscOptionsCreate(&options_));
   for (const auto& [name, value] : defaults)
     check_petsc(PetscOptionsSetValue(options_, name.c_str(), value.c_str()));
+  // An option that sets several others at once takes back the defaults it covers: a user's
+  // -X_relax_type_all replaces our -X_relax_type_down/_up/_coarse, which hypre would otherwise
+  // apply after it.
+  const std::string all_suffix = "relax_type_all";
+  for (const GivenOption& option : given_) {
+    if (option.name.size() < all_suffix.size() ||
+        option.name.compare(option.name.size() - all_suffix.size(), all_suffix.size(), all_suffix) != 0)
+      continue;
+    const std::string stem = option.name.substr(0, option.name.size() - 3);  // "...relax_type_"
+    for (const char* leg : {"down", "up", "coarse"})
+      check_petsc(PetscOptionsClearValue(options_, (stem + leg).c_str()));
+  }
   for (const GivenOption& option : given_) {
     check_petsc(PetscOptionsSetValue(options_, option.name.c_str(),
                                      option.value.empty() ? nullptr : option.value.c_str()));

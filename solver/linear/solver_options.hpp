@@ -39,7 +39,8 @@ std::string case_options_source(const std::string& case_file);
 class SolverOptions {
  public:
   /// Local. The database holds `defaults` (name with '-', value), then every command-line option
-  /// (which override the defaults), then the case file's options (which override both).
+  /// (which override the defaults), then the case file's options (which override both). A given
+  /// "...relax_type_all" removes the defaults "...relax_type_down", "_up" and "_coarse" it covers.
   SolverOptions(const CaseOptionsText& case_options,
                 const std::vector<std::pair<std::string, std::string>>& defaults);
   SolverOptions(const SolverOptions&) = delete;

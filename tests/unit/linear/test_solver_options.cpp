@@ -117,3 +117,25 @@ TEST(SolverOptions, ARefusedValueIsOneInputErrorNamingTheOptionAndWhereItWasGive
       0u)
       << parse_message;
 }
+
+// A user's -..._relax_type_all covers the three smoother legs: our defaults for them must go, or
+// hypre would apply them after it and silently ignore the user's choice.
+TEST(SolverOptions, RelaxTypeAllTakesBackTheDefaultsOfTheLegs) {
+  const std::vector<std::pair<std::string, std::string>> defaults{
+      {"-pressure_pc_hypre_boomeramg_relax_type_down", "SOR/Jacobi"},
+      {"-pressure_pc_hypre_boomeramg_relax_type_up", "backward-SOR/Jacobi"},
+      {"-pressure_pc_hypre_boomeramg_relax_type_coarse", "Gaussian-elimination"}};
+  auto has = [](const SolverOptions& options, const std::string& name) {
+    PetscBool found = PETSC_FALSE;
+    options.use("query", [&] { return PetscOptionsHasName(nullptr, nullptr, name.c_str(), &found); });
+    return found == PETSC_TRUE;
+  };
+  const SolverOptions plain({"", "a.yaml"}, defaults);
+  const SolverOptions all({"-pressure_pc_hypre_boomeramg_relax_type_all Jacobi", "b.yaml"}, defaults);
+  for (const char* leg : {"down", "up", "coarse"}) {
+    const std::string name = std::string("-pressure_pc_hypre_boomeramg_relax_type_") + leg;
+    EXPECT_TRUE(has(plain, name)) << name;
+    EXPECT_FALSE(has(all, name)) << name;
+  }
+  EXPECT_TRUE(has(all, "-pressure_pc_hypre_boomeramg_relax_type_all"));
+}
