@@ -22,7 +22,10 @@ namespace {
 // multigrid (BoomerAMG), one V(1,1) cycle per CG iteration: hybrid Gauss-Seidel/Jacobi forward on the way
 // down and backward on the way up, which keeps the preconditioner symmetric (so CG applies) at half
 // the smoothing work of a symmetric sweep on both legs (measured on the 352 x 192 plate: 11 % more
-// CG iterations, 8 % less time per run). It rebuilds its hierarchy from each new
+// CG iterations, 8 % less time per run). Pressure rtol 5e-2 rather than 1e-2: the outer
+// iteration corrects what the inner solve leaves (measured: the same outer iteration count within
+// 1 % on the plate, the channel and the cavity at Re 100 and 1000; run time ratio 0.88 on the
+// 352 x 192 plate, median of 5 paired runs). It rebuilds its hierarchy from each new
 // matrix with no state carried over, which keeps restarted runs bit-identical to uninterrupted
 // ones (GAMG reuses its interpolation between set-ups by default, so a restarted run would differ
 // in the last bits); it is also as fast here.
@@ -37,7 +40,7 @@ const std::vector<std::pair<std::string, std::string>> solver_defaults{
     {"-pressure_pc_hypre_boomeramg_relax_type_down", "SOR/Jacobi"},
     {"-pressure_pc_hypre_boomeramg_relax_type_up", "backward-SOR/Jacobi"},
     {"-pressure_pc_hypre_boomeramg_relax_type_coarse", "Gaussian-elimination"},
-    {"-pressure_ksp_rtol", "1e-2"},
+    {"-pressure_ksp_rtol", "5e-2"},
     {"-pressure_ksp_max_it", "500"}};
 
 }  // namespace
