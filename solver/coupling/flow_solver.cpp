@@ -16,19 +16,20 @@ namespace wallrans {
 namespace {
 
 // Defaults of the momentum and pressure solvers; options with the prefixes -momentum_ and
-// -pressure_ on the command line or in the case file override them. Momentum: GMRES with block
-// Jacobi/ILU(0): one preconditioner application per iteration against BiCGStab's two (measured on
-// the 352 x 192 plate: run time ratio 0.93, median of 5 paired runs; 6 MiB more at its peak). Algebraic
-// multigrid (BoomerAMG), one V(1,1) cycle per CG iteration: hybrid Gauss-Seidel/Jacobi forward on the way
-// down and backward on the way up, which keeps the preconditioner symmetric (so CG applies) at half
-// the smoothing work of a symmetric sweep on both legs (measured on the 352 x 192 plate: 11 % more
-// CG iterations, 8 % less time per run). Pressure rtol 5e-2 rather than 1e-2: the outer
-// iteration corrects what the inner solve leaves (measured: the same outer iteration count within
-// 1 % on the plate, the channel and the cavity at Re 100 and 1000; run time ratio 0.88 on the
-// 352 x 192 plate, median of 5 paired runs). It rebuilds its hierarchy from each new
-// matrix with no state carried over, which keeps restarted runs bit-identical to uninterrupted
-// ones (GAMG reuses its interpolation between set-ups by default, so a restarted run would differ
-// in the last bits); it is also as fast here.
+// -pressure_ on the command line or in the case file override them. Measured on the 352 x 192
+// plate, each as the median of 5 paired runs against the previous default:
+// - Momentum: GMRES with block Jacobi/ILU(0), one preconditioner application per iteration against
+//   BiCGStab's two: run time ratio 0.93, 6 MiB more at the peak.
+// - Pressure: CG with algebraic multigrid (BoomerAMG), one V(1,1) cycle per iteration with hybrid
+//   Gauss-Seidel/Jacobi forward on the way down and backward on the way up. That keeps the
+//   preconditioner symmetric (so CG applies) at half the smoothing work of a symmetric sweep on
+//   both legs: 11 % more CG iterations, run time ratio 0.92. BoomerAMG rebuilds its hierarchy from
+//   each new matrix with no state carried over, which keeps restarted runs bit-identical to
+//   uninterrupted ones (GAMG reuses its interpolation between set-ups by default, so a restarted
+//   run would differ in the last bits).
+// - Pressure rtol 5e-2 rather than 1e-2: the outer iteration corrects what the inner solve leaves;
+//   the same outer iteration count within 1 % on the plate, the channel and the cavity at Re 100
+//   and 1000, run time ratio 0.88.
 const std::vector<std::pair<std::string, std::string>> solver_defaults{
     {"-momentum_ksp_type", "gmres"},
     {"-momentum_pc_type", "bjacobi"},
