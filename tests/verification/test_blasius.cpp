@@ -153,8 +153,8 @@ std::vector<std::pair<double, double>> mid_plate_profile(const test_support::Cas
     const double xc = 0.5 * (g.node(column, 0).x + g.node(column + 1, 0).x);
     if (std::abs(xi - 0.5) < std::abs(xc - 0.5)) column = i;
   }
-  EXPECT_TRUE(column >= g.x_begin() && column < g.x_end()) << "run this test on one rank";
   std::vector<std::pair<double, double>> profile;
+  if (column < g.x_begin() || column >= g.x_end()) return profile;  // not this rank's column
   for (int j = 0; j < g.cells_y(); ++j) {
     const Vec2 c = g.centre(column, j);
     const double eta = c.y * std::sqrt(u_inf / (nu * c.x));
@@ -170,6 +170,7 @@ TEST_F(Blasius, VelocityProfileAtMidPlate) {
   const Similarity table = read_table();
   const double nu = spec_->flow.kinematic_viscosity, u_inf = spec_->flow.reference_velocity;
   const auto fine = mid_plate_profile(*run_, nu, u_inf), coarse = mid_plate_profile(*coarse_, nu, u_inf);
+  ASSERT_FALSE(fine.empty() || coarse.empty()) << "run this test on one rank";
   // u/U = f'(eta). Tolerance [U], derived: our two-grid uncertainty (largest change of u/U at the
   // same eta, 88 x 36 -> 176 x 72 cells, inside the coarse profile), the departure from
   // boundary-layer theory at x = 0.5 m (boundary_layer_theory_uncertainty, as a fraction of U),

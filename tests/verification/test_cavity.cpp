@@ -121,7 +121,6 @@ void check_against_ghia(double reynolds, int column) {
   std::cout << "cavity Re " << reynolds << ": " << run.status.iteration << " iterations, max |delta| vs Ghia "
             << worst << " (" << points.size() << " points); largest change 65 -> 129 cells " << largest_change
             << ", U_ours " << u_ours << ", tolerance " << tolerance << "\n";
-  EXPECT_LE(worst, tolerance) << "Re " << reynolds;
   for (const Point& p : points)
     EXPECT_LE(std::abs(p.fine - p.table), tolerance)
         << "Re " << reynolds << " " << p.line << " = " << p.position;
